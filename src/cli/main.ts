@@ -1,0 +1,59 @@
+/**
+ * `hush` command line: a thin shell over the physics core and the plan API.
+ * Exit codes: 0 success, 1 a row or file failed, 2 bad arguments or input.
+ */
+import { isHushInputError } from '../physics/errors';
+import { UsageError } from './args';
+import { processIO, type CommandIO } from './io';
+import { reflectCommand, reflectUsage } from './reflect';
+
+type Command = (argv: string[], io: CommandIO) => number | Promise<number>;
+
+interface Entry {
+  run: Command;
+  usage: string;
+  summary: string;
+}
+
+export const commands: Record<string, Entry> = {
+  reflect: { run: reflectCommand, usage: reflectUsage, summary: 'exact discrete reflection of one absorber design' },
+};
+
+export function registerCommand(name: string, entry: Entry): void {
+  commands[name] = entry;
+}
+
+function help(): string {
+  const lines = ['usage: hush <command> [options]', '', 'commands:'];
+  for (const [name, e] of Object.entries(commands)) lines.push(`  ${name.padEnd(8)} ${e.summary}`);
+  lines.push('', "run 'hush <command> --help' for its options");
+  return lines.join('\n');
+}
+
+/** Runs one command line; never throws. */
+export async function main(argv: string[], io: CommandIO = processIO): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === '--help' || name === '-h' || name === 'help') {
+    io.out(help());
+    return name ? 0 : 2;
+  }
+  const entry = commands[name];
+  if (!entry) {
+    io.err(`hush: unknown command ${JSON.stringify(name)}; commands: ${Object.keys(commands).join(', ')}`);
+    return 2;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.out(`usage: ${entry.usage}`);
+    return 0;
+  }
+  try {
+    return await entry.run(rest, io);
+  } catch (e) {
+    if (e instanceof UsageError || isHushInputError(e)) {
+      io.err(`hush ${name}: ${e.message}`);
+      return 2;
+    }
+    io.err(`hush ${name}: internal error: ${e instanceof Error ? e.message : String(e)}`);
+    return 1;
+  }
+}

@@ -1,0 +1,28 @@
+import { HushInputError } from './errors';
+import { finite, wholeInRange } from './validate';
+
+/** Spatial dimensions of a Yee grid. */
+export type Dimensions = 1 | 2 | 3;
+
+/** Courant limit S = cΔt/Δ ≤ 1/√D on a uniform cubic grid in D dimensions (Taflove & Hagness, 3rd ed., §4.7). */
+export function courantLimit(dimensions: number): number {
+  const d = wholeInRange('dimensions', dimensions, 1, 3);
+  return 1 / Math.sqrt(d);
+}
+
+/** Default Courant number: 0.99 of the 3-D limit (common practice: a small margin below the limit). */
+export const DEFAULT_COURANT = 0.99 / Math.sqrt(3);
+
+/** Checks a vacuum Courant number against the limit of a D-dimensional grid and returns it. */
+export function checkCourant(courant: unknown, dimensions: number = 3): number {
+  const s = finite('Courant number', courant);
+  const limit = courantLimit(dimensions);
+  if (!(s > 0)) throw new HushInputError('Courant number', `Courant number must be greater than 0 (got ${s})`);
+  if (s > limit * (1 + 1e-12)) {
+    throw new HushInputError(
+      'Courant number',
+      `Courant number ${s} is above the ${dimensions}-D stability limit 1/√${dimensions} = ${limit.toPrecision(6)}`,
+    );
+  }
+  return s;
+}

@@ -1,0 +1,76 @@
+/**
+ * CPML recursive-convolution coefficients per node (Roden & Gedney, Microwave
+ * Opt. Technol. Lett. 27, 334 (2000); Taflove & Hagness, 3rd ed., §7.9):
+ *   b = exp(−(σ/κ + α)·Δt/ε₀),  a = σ·(b − 1)/(σκ + κ²α),
+ *   ψⁿ = b·ψⁿ⁻¹ + a·Dⁿ, stretched difference = D/κ + ψ.
+ * Node convention (physics.md §3): E nodes at depths i = 0…N, H nodes at
+ * depths i + ½, i = 0…N−1, profiles sampled at each node's own depth.
+ */
+import { profileAt, type ResolvedDesign } from './grading';
+
+/** Coefficients of one absorber on its E and H nodes. */
+export interface CpmlCoefficients {
+  layers: number;
+  /** E nodes 0…N. */
+  eB: Float64Array;
+  eA: Float64Array;
+  eInvKappa: Float64Array;
+  /** H nodes at depth i + ½, i = 0…N−1. */
+  hB: Float64Array;
+  hA: Float64Array;
+  hInvKappa: Float64Array;
+}
+
+/** Allocates coefficient storage for up to `capacity` layers. */
+export function allocateCoefficients(capacity: number): CpmlCoefficients {
+  return {
+    layers: 0,
+    eB: new Float64Array(capacity + 1),
+    eA: new Float64Array(capacity + 1),
+    eInvKappa: new Float64Array(capacity + 1),
+    hB: new Float64Array(capacity),
+    hA: new Float64Array(capacity),
+    hInvKappa: new Float64Array(capacity),
+  };
+}
+
+const prof = new Float64Array(3);
+
+/** b and a for normalised σ, κ, α at medium Courant number S_m; writes into out[0], out[1]. */
+export function nodeCoefficients(sigma: number, kappa: number, alpha: number, courantMedium: number, out: Float64Array): void {
+  const b = Math.exp(-(sigma / kappa + alpha) * courantMedium);
+  const den = sigma * kappa + kappa * kappa * alpha;
+  out[0] = b;
+  out[1] = den > 0 ? (sigma * (b - 1)) / den : 0;
+}
+
+const ab = new Float64Array(2);
+
+/**
+ * Fills `out` (from `allocateCoefficients`) with the coefficients of `design`
+ * on a grid of medium Courant number S_m = S/n. Returns `out`.
+ */
+export function fillCoefficients(design: ResolvedDesign, courantMedium: number, out: CpmlCoefficients): CpmlCoefficients {
+  const N = design.layers;
+  out.layers = N;
+  for (let i = 0; i <= N; i++) {
+    profileAt(design, i / N, prof);
+    nodeCoefficients(prof[0], prof[1], prof[2], courantMedium, ab);
+    out.eB[i] = ab[0];
+    out.eA[i] = ab[1];
+    out.eInvKappa[i] = 1 / prof[1];
+  }
+  for (let i = 0; i < N; i++) {
+    profileAt(design, (i + 0.5) / N, prof);
+    nodeCoefficients(prof[0], prof[1], prof[2], courantMedium, ab);
+    out.hB[i] = ab[0];
+    out.hA[i] = ab[1];
+    out.hInvKappa[i] = 1 / prof[1];
+  }
+  return out;
+}
+
+/** Coefficients of a design in freshly allocated arrays (convenience for engines and tests). */
+export function cpmlCoefficients(design: ResolvedDesign, courantMedium: number): CpmlCoefficients {
+  return fillCoefficients(design, courantMedium, allocateCoefficients(design.layers));
+}

@@ -1,0 +1,127 @@
+/**
+ * Yee-grid numerical dispersion, in the units of the background medium:
+ * lengths in cells, the wave speed of the medium set to 1, Courant number
+ * S_m = vΔt/Δ = S/n (physics.md §3, §4).
+ *
+ * Dispersion relation on a uniform grid (Taflove & Hagness, 3rd ed., eq. 4.12):
+ *   (sin(ωΔt/2)/(vΔt))² = Σ_i (sin(k_i·Δ/2)/Δ)².
+ */
+import { HushInputError } from './errors';
+import { finite, inRange } from './validate';
+
+const DEG = Math.PI / 180;
+
+/** Right-hand side target T = sin²(ωΔt/2)/S_m² for a wave of `ppw` cells per wavelength. */
+function dispersionTarget(ppw: number, courantMedium: number): number {
+  const s = Math.sin((Math.PI * courantMedium) / ppw) / courantMedium;
+  return s * s;
+}
+
+/** Largest q = |k̃|Δ on the monotonic branch along a direction, and the value of Σ sin² there. */
+function branchEnd(cosT: number, sinT: number): { qMax: number; gMax: number } {
+  const big = Math.max(cosT, sinT);
+  const qMax = Math.PI / big;
+  const a = Math.sin((qMax * cosT) / 2);
+  const b = Math.sin((qMax * sinT) / 2);
+  return { qMax, gMax: a * a + b * b };
+}
+
+/**
+ * Smallest cells per wavelength (in the medium) that the grid can carry as a
+ * propagating wave along `angleDeg` in the plane of a 2-D or 3-D grid. Below it
+ * the discrete dispersion relation has no real wavenumber (derived from the
+ * relation above).
+ */
+export function minimumResolvablePpw(courantMedium: number, angleDeg = 0): number {
+  const th = Math.abs(angleDeg) * DEG;
+  const { gMax } = branchEnd(Math.abs(Math.cos(th)), Math.abs(Math.sin(th)));
+  const x = courantMedium * Math.sqrt(gMax);
+  // sin(πS_m/ppw) ≤ x; when x ≥ 1 only the temporal Nyquist limit ppw ≥ 2·S_m remains.
+  return x >= 1 ? 2 * courantMedium : (Math.PI * courantMedium) / Math.asin(x);
+}
+
+/** Checks cells per wavelength against the grid's resolvable limit. */
+export function checkPpw(field: string, ppw: unknown, courantMedium: number, angleDeg = 0): number {
+  const p = finite(field, ppw);
+  const limit = minimumResolvablePpw(courantMedium, angleDeg);
+  if (!(p > limit * (1 + 1e-9))) {
+    throw new HushInputError(
+      field,
+      `${field} must be more than ${limit.toPrecision(4)} on this grid (Courant number ${courantMedium.toPrecision(4)} in the medium, angle ${angleDeg}°): below it the grid carries no propagating wave (got ${quote2(p)})`,
+    );
+  }
+  return p;
+}
+
+function quote2(v: number): string {
+  return Number.isNaN(v) ? 'NaN' : String(v);
+}
+
+/**
+ * Magnitude q = |k̃|·Δ of the discrete wavevector of a plane wave of `ppw`
+ * cells per wavelength travelling at `angleDeg` from the x axis, solving
+ * sin²(q cosθ/2) + sin²(q sinθ/2) = sin²(πS_m/ppw)/S_m² on its first branch.
+ */
+export function discreteWavenumber(ppw: number, courantMedium: number, angleDeg = 0): number {
+  const th = angleDeg * DEG;
+  const c = Math.abs(Math.cos(th));
+  const s = Math.abs(Math.sin(th));
+  const target = dispersionTarget(ppw, courantMedium);
+  const { qMax, gMax } = branchEnd(c, s);
+  if (target > gMax) {
+    throw new HushInputError('cells per wavelength', `cells per wavelength ${ppw} is below the resolvable limit of this grid`);
+  }
+  if (s === 0 || c === 0) return 2 * Math.asin(Math.sqrt(target));
+  // Newton from the axis solution, safeguarded by bisection on [lo, hi].
+  let lo = 0;
+  let hi = qMax;
+  let q = Math.min(2 * Math.asin(Math.sqrt(Math.min(1, target / 1))), qMax * 0.999);
+  for (let it = 0; it < 60; it++) {
+    const a = Math.sin((q * c) / 2);
+    const b = Math.sin((q * s) / 2);
+    const f = a * a + b * b - target;
+    if (f > 0) hi = q;
+    else lo = q;
+    const df = 0.5 * (c * Math.sin(q * c) + s * Math.sin(q * s));
+    let next = q - f / df;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - q) <= 1e-15 * q) {
+      q = next;
+      break;
+    }
+    q = next;
+  }
+  return q;
+}
+
+/**
+ * Numerical phase velocity relative to the medium's wave speed, v_p/v = ω/(|k̃|v),
+ * for `ppw` cells per (physical) wavelength, vacuum Courant number `courant`,
+ * direction `angleDeg` and background index `index`.
+ * Check values: Schneider, Understanding the FDTD Method, ch. 7 (1-D, S = 0.5).
+ */
+export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 0, index = 1): number {
+  const n = inRange('background index', index, 1, 100);
+  const sm = inRange('Courant number', courant, 0, 1, { loOpen: true }) / n;
+  inRange('angle', angleDeg, -360, 360, { unit: 'degrees' });
+  const p = checkPpw('cells per wavelength', ppw, sm, angleDeg);
+  const q = discreteWavenumber(p, sm, angleDeg);
+  return (2 * Math.PI) / p / q;
+}
+
+/**
+ * Direction of a discrete plane wave with temporal phase step ωΔt and conserved
+ * transverse wavenumber k_t (radians per cell), in a grid of medium Courant
+ * number S_m: sin²(k_x/2) = sin²(ωΔt/2)/S_m² − sin²(k_t/2), θ = atan2(k_t, k_x).
+ * Returns NaN-free values only for propagating waves; throws otherwise.
+ */
+export function discreteAngle(omegaDt: number, kt: number, courantMedium: number): { kx: number; angleDeg: number } {
+  const st = Math.sin(omegaDt / 2) / courantMedium;
+  const sk = Math.sin(kt / 2);
+  const x = st * st - sk * sk;
+  if (!(x > 0 && x <= 1)) {
+    throw new HushInputError('transverse wavenumber', 'the wave is evanescent along the normal at this frequency and transverse wavenumber');
+  }
+  const kx = 2 * Math.asin(Math.sqrt(x));
+  return { kx, angleDeg: Math.atan2(kt, kx) / DEG };
+}
