@@ -6,3 +6,5 @@ export * from './grading';
 export * from './cpml';
 export * from './continuous';
 export * from './reflection';
+export * from './budget';
+export * from './ripple';
