@@ -55,7 +55,10 @@ function resolve(o: BudgetOptions): Resolved {
 
 /** Echo amplitude A for an intensity error ε under a phase model. */
 export function echoAmplitudeForError(error: number, phase: PhaseModel): number {
-  return phase === 'worst' ? Math.sqrt(1 + error) - 1 : Math.sqrt(Math.sqrt(1 + error * error) - 1);
+  // Written without cancellation: √(1+x) − 1 = x/(√(1+x) + 1).
+  if (phase === 'worst') return error / (Math.sqrt(1 + error) + 1);
+  const e2 = error * error;
+  return Math.sqrt(e2 / (Math.sqrt(1 + e2) + 1));
 }
 
 /** Intensity error ε caused by an echo of amplitude A under a phase model. */
@@ -65,7 +68,7 @@ export function errorForEchoAmplitude(a: number, phase: PhaseModel): number {
 
 /**
  * Required amplitude reflection per absorbing face.
- * Example: requiredAmplitude({ intensityError: 0.01 }) = √1.01 − 1 = 0.004987562112089…
+ * Example: requiredAmplitude({ intensityError: 0.01 }) = √1.01 − 1 = 0.004987562112089027 (computed without cancellation)
  */
 export function requiredAmplitude(spec: BudgetSpec): number {
   if (spec === null || typeof spec !== 'object') throw new HushInputError('budget', 'budget must be an object', 'value');

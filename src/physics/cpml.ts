@@ -41,7 +41,7 @@ export function nodeCoefficients(sigma: number, kappa: number, alpha: number, co
   const b = Math.exp(-(sigma / kappa + alpha) * courantMedium);
   const den = sigma * kappa + kappa * kappa * alpha;
   out[0] = b;
-  out[1] = den > 0 ? (sigma * (b - 1)) / den : 0;
+  out[1] = sigma > 0 && den > 0 ? (sigma * (b - 1)) / den : 0;
 }
 
 const ab = new Float64Array(2);

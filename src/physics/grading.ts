@@ -4,7 +4,7 @@
  * so that σΔt/ε₀ = σ_norm·S_m with S_m = S/n the Courant number in the medium.
  */
 import { HushInputError } from './errors';
-import { MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH } from './constants';
+import { ETA0, MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH } from './constants';
 import { finite, inRange, wholeInRange } from './validate';
 
 /** How σ grows with depth. */
@@ -55,8 +55,7 @@ export function sigmaOpt(order: number, cellMetres: number, index = 1): number {
   const m = inRange('grading order', order, 0, MAX_ORDER);
   const d = inRange('cell size', cellMetres, 0, Infinity, { loOpen: true, unit: 'm' });
   const n = inRange('background index', index, 1, 100);
-  const eta0 = 376.730313668; // μ₀c with CODATA 2018 μ₀
-  return (0.8 * (m + 1)) / (eta0 * d * n);
+  return (0.8 * (m + 1)) / (ETA0 * d * n);
 }
 
 /** Checks a design and fills in defaults. */

@@ -8,3 +8,4 @@ export * from './continuous';
 export * from './reflection';
 export * from './budget';
 export * from './ripple';
+export * from './design';
