@@ -12,7 +12,10 @@
  *     estimate N ≈ ln(1/R)/(1.6·cos θ_max), then bisection; N − 1 is always
  *     evaluated and found infeasible;
  *  4. check the answer on a grid 4× denser in frequency and angle that contains
- *     the search samples; if it fails there, step N up until it passes.
+ *     the search samples; if it fails there, re-optimise the strength on the
+ *     dense grid, and if that fails too, step N up until it passes.
+ * So N − 1 always fails: on the search grid (a subset of the dense grid), or on
+ * the dense grid at its own best strength.
  * The cheapest (fewest layers; then lower worst reflection) order wins.
  */
 import { DEFAULT_COURANT, checkCourant } from './courant';
@@ -361,12 +364,17 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
     const d = baseDesign(rs, N, order);
     d.strength = opt.strength;
     worstReflection(d, dense, rs.courantMedium, ws, Infinity, 0, w);
+    if (w.amplitude > target) {
+      // A point between the search samples breaks the target: re-optimise on the dense grid itself.
+      d.strength = bestStrength(baseDesign(rs, N, order), dense, rs, ws, 0).strength;
+      worstReflection(d, dense, rs.courantMedium, ws, Infinity, 0, w);
+    }
     if (w.amplitude <= target) {
       const cont = continuousReflection(d, rs.ppwMax, rs.angleMaxDeg);
       return {
         layers: N,
         order,
-        strength: opt.strength,
+        strength: d.strength,
         kappaMax: rs.kappaMax,
         alphaMaxNorm: rs.alphaMaxNorm,
         alphaOrder: rs.alphaOrder,
