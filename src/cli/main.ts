@@ -6,6 +6,9 @@ import { isHushInputError } from '../physics/errors';
 import { UsageError } from './args';
 import { processIO, type CommandIO } from './io';
 import { reflectCommand, reflectUsage } from './reflect';
+import { budgetCommand, budgetUsage } from './budget';
+import { designCommand, designUsage } from './design';
+import { rippleCommand, rippleUsage } from './ripple';
 
 type Command = (argv: string[], io: CommandIO) => number | Promise<number>;
 
@@ -17,6 +20,9 @@ interface Entry {
 
 export const commands: Record<string, Entry> = {
   reflect: { run: reflectCommand, usage: reflectUsage, summary: 'exact discrete reflection of one absorber design' },
+  budget: { run: budgetCommand, usage: budgetUsage, summary: 'tolerated intensity error <-> required amplitude reflection' },
+  design: { run: designCommand, usage: designUsage, summary: 'thinnest absorber that meets a target over a band and angles' },
+  ripple: { run: rippleCommand, usage: rippleUsage, summary: 'spectral ripple of a reflection, or the reflection behind a ripple' },
 };
 
 export function registerCommand(name: string, entry: Entry): void {
