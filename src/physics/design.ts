@@ -418,7 +418,7 @@ export function designOptions(spec: DesignSpec): DesignResult[] {
   if (results.length === 0) {
     throw new HushInputError(
       'target reflection',
-      `no design up to ${rs.maxLayers} layers meets |r| ≤ ${rs.target} at ${rs.ppwMin} cells per wavelength${rs.angleMaxDeg ? ` and ${rs.angleMaxDeg}°` : ''}: the grid's own discretisation reflection is too high; refine the grid or relax the tolerance`,
+      `no design up to ${rs.maxLayers} layers meets |r| ≤ ${rs.target} at ${rs.ppwMin} cells per wavelength${rs.angleMaxDeg ? ` and ${rs.angleMaxDeg}°` : ''}: the grid's discretisation reflection${rs.angleMaxDeg ? ' and the weak absorption at large angles' : ''} set a floor; refine the grid, relax the tolerance${rs.angleMaxDeg ? ' or reduce the largest angle' : ''}`,
     );
   }
   results.sort((a, b) => a.layers - b.layers || a.worstAmplitude - b.worstAmplitude);
