@@ -1,0 +1,119 @@
+/* Builds the Excel add-in into dist/web (shared runtime: one page, taskpane.html,
+ * loads both the task pane and the worksheet functions).
+ *
+ *   npm run build:web            production bundle
+ *   npm run dev-server           https://localhost:3000 with office-addin-dev-certs
+ *   npm run dev-server:http      http://localhost:3000, no certificates (tests, previews)
+ *
+ * Options (webpack --env NAME=VALUE):
+ *   http           serve over plain http (no certificates needed; Office itself requires https)
+ *   port=N         dev-server port (default: npm config dev_server_port, else 3000)
+ *   publicUrl=URL  where dist/web will be hosted; replaces https://localhost:3000/ in the copied manifest
+ */
+'use strict';
+const path = require('path');
+const CopyWebpackPlugin = require('copy-webpack-plugin');
+const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
+const HtmlWebpackPlugin = require('html-webpack-plugin');
+
+const DEV_URL = 'https://localhost:3000/';
+const OUTPUT = path.resolve(__dirname, 'dist/web');
+
+/** HTTPS options from the Office dev certificates, or null (with the reason) when they cannot be had. */
+async function devCertificates() {
+  try {
+    const devCerts = require('office-addin-dev-certs');
+    const options = await devCerts.getHttpsServerOptions();
+    return { options: { ca: options.ca, key: options.key, cert: options.cert } };
+  } catch (e) {
+    return { reason: e && e.message ? e.message : String(e) };
+  }
+}
+
+module.exports = async (env = {}, argv = {}) => {
+  const dev = argv.mode === 'development';
+  const serving = Boolean(env.WEBPACK_SERVE);
+  const port = Number(env.port || process.env.npm_package_config_dev_server_port || 3000);
+  const publicUrl = env.publicUrl ? String(env.publicUrl).replace(/\/?$/, '/') : DEV_URL;
+
+  let server = 'http';
+  let serverOptions;
+  if (serving && !env.http) {
+    const certs = await devCertificates();
+    if (certs.options) {
+      server = 'https';
+      serverOptions = certs.options;
+    } else {
+      console.warn(`[hush] no development certificates (${certs.reason}); serving over http. Excel needs https: run "npx office-addin-dev-certs install" and retry.`);
+    }
+  }
+
+  return {
+    // No eval-based source maps: taskpane.html's Content-Security-Policy forbids eval.
+    devtool: 'source-map',
+    entry: {
+      taskpane: './taskpane/taskpane.ts',
+      functions: './src/functions/functions.ts',
+    },
+    output: {
+      path: OUTPUT,
+      filename: '[name].js',
+      clean: true,
+    },
+    resolve: {
+      extensions: ['.ts', '.js'],
+    },
+    module: {
+      rules: [
+        {
+          test: /\.ts$/,
+          exclude: /node_modules/,
+          use: {
+            loader: 'ts-loader',
+            options: {
+              transpileOnly: true,
+              // tsconfig.json is set up for type checking (noEmit) and CommonJS for Node;
+              // the browser bundle wants emitted ES modules so webpack can drop unused code.
+              compilerOptions: { noEmit: false, module: 'es2020', target: 'es2020', sourceMap: true },
+            },
+          },
+        },
+      ],
+    },
+    plugins: [
+      new CustomFunctionsMetadataPlugin({
+        output: 'functions.json',
+        input: './src/functions/functions.ts',
+      }),
+      new HtmlWebpackPlugin({
+        filename: 'taskpane.html',
+        template: './taskpane/taskpane.html',
+        // Shared runtime: the one page runs the task pane and registers the functions.
+        chunks: ['taskpane', 'functions'],
+        chunksSortMode: 'manual',
+      }),
+      new CopyWebpackPlugin({
+        patterns: [
+          { from: 'assets/icon-*.png', to: 'assets/[name][ext]' },
+          { from: 'taskpane/taskpane.css', to: 'taskpane.css' },
+          {
+            from: 'manifest.xml',
+            to: 'manifest.xml',
+            transform(content) {
+              return publicUrl === DEV_URL ? content : content.toString().split(DEV_URL).join(publicUrl);
+            },
+          },
+        ],
+      }),
+    ],
+    performance: { hints: false },
+    devServer: {
+      port,
+      server: serverOptions ? { type: server, options: serverOptions } : server,
+      headers: { 'Access-Control-Allow-Origin': '*' },
+      static: false,
+      hot: false,
+      client: dev ? { overlay: false } : false,
+    },
+  };
+};
