@@ -46,13 +46,13 @@ describe('accuracy budget (physics.md §1)', () => {
   });
   it('rejects bad inputs with specific messages', () => {
     const bad: [() => unknown, RegExp][] = [
-      [() => requiredAmplitude({ intensityError: 0 }), /intensity error must be greater than 0/],
-      [() => requiredAmplitude({ intensityError: -1 }), /intensity error must be greater than 0/],
+      [() => requiredAmplitude({ intensityError: 0 }), /intensity error must be at least 1e-12/],
+      [() => requiredAmplitude({ intensityError: -1 }), /intensity error must be at least 1e-12/],
       [() => requiredAmplitude({ intensityError: NaN }), /finite number/],
       [() => requiredAmplitude({ intensityError: 0.01, faces: 0 }), /faces must be a whole number from 1 to 6/],
-      [() => requiredAmplitude({ intensityError: 0.01, share: 0 }), /share must be greater than 0 and at most 1/],
-      [() => requiredAmplitude({ intensityError: 0.01, share: 1.5 }), /share must be greater than 0 and at most 1/],
-      [() => requiredAmplitude({ intensityError: 0.01, coupling: 2 }), /coupling must be greater than 0 and at most 1/],
+      [() => requiredAmplitude({ intensityError: 0.01, share: 0 }), /share must be at least 0.000001 and at most 1/],
+      [() => requiredAmplitude({ intensityError: 0.01, share: 1.5 }), /share must be at least 0.000001 and at most 1/],
+      [() => requiredAmplitude({ intensityError: 0.01, coupling: 2 }), /coupling must be at least 0.000001 and at most 1/],
       [() => requiredAmplitude({ intensityError: 0.01, phase: 'sometimes' as 'worst' }), /phase must be "worst" or "random"/],
       [() => intensityErrorFromAmplitude(1), /amplitude reflection must be at least 0 and less than 1/],
     ];
@@ -78,7 +78,7 @@ describe('ripple diagnostics (physics.md §1)', () => {
     expect(inv.amplitude).toBeCloseTo(3e-3, 15);
     expect(inv.distanceMetres).toBeCloseTo(2.5e-6, 18);
     expect(() => reflectionFromRipple(0, 1e12)).toThrow(/ripple peak-to-peak must be greater than 0/);
-    expect(() => reflectionFromRipple(0.02, -1)).toThrow(/ripple period must be greater than 0/);
+    expect(() => reflectionFromRipple(0.02, -1)).toThrow(/ripple period must be at least 0.001/);
     expect(() => reflectionFromRipple(3.9, 1e12, 1, 0.5)).toThrow(/implies \|r\| ≥ 1/);
   });
 });

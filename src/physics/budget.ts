@@ -41,15 +41,19 @@ interface Resolved {
 
 /** Largest relative intensity error accepted (a 100 % error is no budget at all). */
 export const MAX_INTENSITY_ERROR = 1;
+/** Smallest intensity error accepted: below 1e-12 double-precision field solvers cannot resolve the difference. */
+export const MIN_INTENSITY_ERROR = 1e-12;
+/** Smallest coupling or share accepted. */
+export const MIN_FRACTION = 1e-6;
 
 function resolve(o: BudgetOptions): Resolved {
-  const coupling = inRange('coupling', o.coupling ?? 1, 0, 1, { loOpen: true });
+  const coupling = inRange('coupling', o.coupling ?? 1, MIN_FRACTION, 1);
   const faces = wholeInRange('faces', o.faces ?? 1, 1, 6);
   const phase = o.phase ?? 'worst';
   if (phase !== 'worst' && phase !== 'random') {
     throw new HushInputError('phase', `phase must be "worst" or "random" (got ${JSON.stringify(phase)})`, 'value');
   }
-  const share = inRange('share', o.share ?? 1, 0, 1, { loOpen: true });
+  const share = inRange('share', o.share ?? 1, MIN_FRACTION, 1);
   return { coupling, faces, phase, share };
 }
 
@@ -72,7 +76,7 @@ export function errorForEchoAmplitude(a: number, phase: PhaseModel): number {
  */
 export function requiredAmplitude(spec: BudgetSpec): number {
   if (spec === null || typeof spec !== 'object') throw new HushInputError('budget', 'budget must be an object', 'value');
-  const eps = inRange('intensity error', spec.intensityError, 0, MAX_INTENSITY_ERROR, { loOpen: true });
+  const eps = inRange('intensity error', spec.intensityError, MIN_INTENSITY_ERROR, MAX_INTENSITY_ERROR);
   const o = resolve(spec);
   const a = echoAmplitudeForError(eps * o.share, o.phase);
   const combine = o.phase === 'worst' ? o.faces : Math.sqrt(o.faces);

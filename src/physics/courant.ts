@@ -10,6 +10,9 @@ export function courantLimit(dimensions: number): number {
   return 1 / Math.sqrt(d);
 }
 
+/** Smallest Courant number accepted (smaller steps only multiply the work). */
+export const MIN_COURANT = 1e-4;
+
 /** Default Courant number: 0.99 of the 3-D limit (common practice: a small margin below the limit). */
 export const DEFAULT_COURANT = 0.99 / Math.sqrt(3);
 
@@ -17,7 +20,7 @@ export const DEFAULT_COURANT = 0.99 / Math.sqrt(3);
 export function checkCourant(courant: unknown, dimensions: number = 3): number {
   const s = finite('Courant number', courant);
   const limit = courantLimit(dimensions);
-  if (!(s > 0)) throw new HushInputError('Courant number', `Courant number must be greater than 0 (got ${s})`);
+  if (!(s >= MIN_COURANT)) throw new HushInputError('Courant number', `Courant number must be at least ${MIN_COURANT} (got ${s})`);
   if (s > limit * (1 + 1e-12)) {
     throw new HushInputError(
       'Courant number',

@@ -8,8 +8,12 @@
  */
 import { HushInputError } from './errors';
 import { finite, inRange } from './validate';
+import { MIN_COURANT } from './courant';
 
 const DEG = Math.PI / 180;
+
+/** Longest wave accepted, in cells per wavelength (longer waves are quasi-static on any grid). */
+export const MAX_PPW = 1e6;
 
 /** Right-hand side target T = sin²(ωΔt/2)/S_m² for a wave of `ppw` cells per wavelength. */
 function dispersionTarget(ppw: number, courantMedium: number): number {
@@ -43,6 +47,9 @@ export function minimumResolvablePpw(courantMedium: number, angleDeg = 0): numbe
 /** Checks cells per wavelength against the grid's resolvable limit. */
 export function checkPpw(field: string, ppw: unknown, courantMedium: number, angleDeg = 0): number {
   const p = finite(field, ppw);
+  if (p > MAX_PPW) {
+    throw new HushInputError(field, `${field} must be at most ${MAX_PPW} (got ${quote2(p)}): a wave that long is static on the grid`);
+  }
   const limit = minimumResolvablePpw(courantMedium, angleDeg);
   if (!(p > limit * (1 + 1e-9))) {
     throw new HushInputError(
@@ -102,7 +109,7 @@ export function discreteWavenumber(ppw: number, courantMedium: number, angleDeg 
  */
 export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 0, index = 1): number {
   const n = inRange('background index', index, 1, 100);
-  const sm = inRange('Courant number', courant, 0, 1, { loOpen: true }) / n;
+  const sm = inRange('Courant number', courant, MIN_COURANT, 1) / n;
   inRange('angle', angleDeg, -360, 360, { unit: 'degrees' });
   const p = checkPpw('cells per wavelength', ppw, sm, angleDeg);
   const q = discreteWavenumber(p, sm, angleDeg);

@@ -20,9 +20,9 @@ export interface RippleResult {
 /** Ripple produced by amplitude reflection |r| with coupling c at distance L (m) in group index n_g. */
 export function rippleFromReflection(amplitude: number, distanceMetres: number, groupIndex = 1, coupling = 1): RippleResult {
   const r = inRange('amplitude reflection', amplitude, 0, 1, { hiOpen: true });
-  const L = inRange('distance', distanceMetres, 0, Infinity, { loOpen: true, unit: 'm' });
+  const L = inRange('distance', distanceMetres, 1e-12, 1e6, { unit: 'm' });
   const ng = inRange('group index', groupIndex, 1, 100);
-  const c = inRange('coupling', coupling, 0, 1, { loOpen: true });
+  const c = inRange('coupling', coupling, 1e-6, 1);
   return { peakToPeak: 4 * c * r, periodHz: SPEED_OF_LIGHT / (2 * ng * L) };
 }
 
@@ -36,9 +36,9 @@ export interface RippleSource {
 /** Inverse: from an observed relative peak-to-peak ripple and its period (Hz), the implied |r| and distance. */
 export function reflectionFromRipple(peakToPeak: number, periodHz: number, groupIndex = 1, coupling = 1): RippleSource {
   const p = inRange('ripple peak-to-peak', peakToPeak, 0, 4, { loOpen: true, hiOpen: true });
-  const f = inRange('ripple period', periodHz, 0, Infinity, { loOpen: true, unit: 'Hz' });
+  const f = inRange('ripple period', periodHz, 1e-3, 1e18, { unit: 'Hz' });
   const ng = inRange('group index', groupIndex, 1, 100);
-  const c = inRange('coupling', coupling, 0, 1, { loOpen: true });
+  const c = inRange('coupling', coupling, 1e-6, 1);
   const amplitude = p / 4 / c;
   if (!(amplitude < 1)) {
     throw new HushInputError('ripple peak-to-peak', `a ripple of ${p} with coupling ${c} implies |r| ≥ 1, which no passive boundary gives`);

@@ -1,0 +1,90 @@
+/**
+ * Hardening: random calls to every public core function. Each call either
+ * returns finite numbers or throws a HushInputError with a message; none throws
+ * anything else, returns NaN/Infinity, or takes longer than the stated bound.
+ */
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import {
+  HushInputError,
+  designOptions,
+  intensityErrorFromAmplitude,
+  numericalPhaseVelocity,
+  reflection,
+  reflectionFromRipple,
+  requiredAmplitude,
+  rippleFromReflection,
+} from '../src/physics';
+
+/** Per-call time bound, ms (design calls are the slowest: a few tens of ms at worst). */
+const CALL_BOUND_MS = 500;
+
+const anyValue = fc.oneof(
+  fc.double(),
+  fc.integer({ min: -1000, max: 1000 }),
+  fc.constantFrom(0, -1, 1, 2, 1e308, -1e308, 5e-324, 1e-300, NaN, Infinity, -Infinity, 0.5, 90, 89.9, 85, 200, 201),
+  fc.string({ maxLength: 8 }),
+  fc.constant(null),
+  fc.constant(undefined),
+);
+/** Values that are often valid, so the random calls also reach the computations. */
+const plausible = (lo: number, hi: number) => fc.oneof(fc.double({ min: lo, max: hi, noNaN: true }), anyValue);
+
+function allFinite(x: unknown): boolean {
+  if (typeof x === 'number') return Number.isFinite(x);
+  if (Array.isArray(x)) return x.every(allFinite);
+  if (x && typeof x === 'object') return Object.values(x).every((v) => typeof v === 'string' || allFinite(v));
+  return typeof x === 'string';
+}
+
+function check(call: () => unknown) {
+  const t0 = performance.now();
+  try {
+    const v = call();
+    expect(allFinite(v)).toBe(true);
+  } catch (e) {
+    if (!(e instanceof HushInputError)) throw e;
+    expect(e.message.length).toBeGreaterThan(10);
+  }
+  expect(performance.now() - t0).toBeLessThan(CALL_BOUND_MS);
+}
+
+const RUNS = 10_000;
+
+describe('property: core functions never crash, never return NaN', () => {
+  it(`reflection (${RUNS} calls)`, () => {
+    fc.assert(
+      fc.property(plausible(1, 40), plausible(0, 6), plausible(2, 60), plausible(0, 89), plausible(0.1, 5), plausible(1, 10), plausible(0, 1), plausible(0.1, 0.58), plausible(1, 4), (N, m, ppw, ang, s, k, a, c, n) =>
+        check(() => reflection({ layers: N as number, order: m as number, strength: s as number, kappaMax: k as number, alphaMaxNorm: a as number }, { ppw: ppw as number, angleDeg: ang as number, courant: c as number, index: n as number })),
+      ),
+      { numRuns: RUNS },
+    );
+  });
+  it(`designOptions (${RUNS} calls)`, () => {
+    fc.assert(
+      fc.property(plausible(1e-8, 0.5), plausible(3, 60), plausible(3, 200), plausible(0, 89), plausible(1, 4), (t, p1, p2, ang, n) =>
+        check(() => designOptions({ target: t as number, ppwMin: p1 as number, ppwMax: p2 as number, angleMaxDeg: ang as number, index: n as number })),
+      ),
+      { numRuns: RUNS },
+    );
+  });
+  it(`budget both ways (${RUNS} calls each)`, () => {
+    fc.assert(
+      fc.property(plausible(1e-6, 1), plausible(0, 1), plausible(1, 6), fc.constantFrom('worst', 'random', 'x', undefined), plausible(0, 1), (e, c, f, ph, sh) => {
+        check(() => requiredAmplitude({ intensityError: e as number, coupling: c as number, faces: f as number, phase: ph as 'worst', share: sh as number }));
+        check(() => intensityErrorFromAmplitude(e as number, { coupling: c as number, faces: f as number, phase: ph as 'worst', share: sh as number }));
+      }),
+      { numRuns: RUNS },
+    );
+  });
+  it(`ripple both ways and phase velocity (${RUNS} calls each)`, () => {
+    fc.assert(
+      fc.property(plausible(0, 1), plausible(1e-9, 1), plausible(1, 5), plausible(0, 1), plausible(1e6, 1e15), plausible(2, 40), (r, L, ng, c, f, ppw) => {
+        check(() => rippleFromReflection(r as number, L as number, ng as number, c as number));
+        check(() => reflectionFromRipple(r as number, f as number, ng as number, c as number));
+        check(() => numericalPhaseVelocity(ppw as number, c as number, (L as number) * 80, ng as number));
+      }),
+      { numRuns: RUNS },
+    );
+  });
+});
