@@ -1,0 +1,234 @@
+/**
+ * The add-in build (webpack.config.js): one production build into a temporary
+ * folder, then checks of what Excel will load — functions.json generated from
+ * the JSDoc (every function, its parameters, optional flags, dimensionality
+ * and result type), the bundle registering each function, the shared-runtime
+ * page loading both chunks under a Content-Security-Policy, and the copied
+ * manifest and icons. Also starts the http dev server (no certificates) and
+ * fetches the page from it.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'fs';
+import net from 'net';
+import os from 'os';
+import path from 'path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+const root = path.join(__dirname, '..');
+const webpackCli = path.join(root, 'node_modules/webpack-cli/bin/cli.js');
+let out = '';
+let altOut = '';
+
+function runWebpack(outputPath: string, ...extra: string[]): void {
+  const r = spawnSync(process.execPath, [webpackCli, '--mode', 'production', '--output-path', outputPath, ...extra], {
+    cwd: root,
+    encoding: 'utf8',
+    env: { ...process.env, NO_COLOR: '1' },
+  });
+  if (r.status !== 0) throw new Error(`webpack failed (${r.status}):\n${r.stdout}\n${r.stderr}`);
+}
+
+beforeAll(() => {
+  out = mkdtempSync(path.join(os.tmpdir(), 'hush-web-'));
+  altOut = mkdtempSync(path.join(os.tmpdir(), 'hush-web-url-'));
+  runWebpack(out);
+  runWebpack(altOut, '--env', 'publicUrl=https://planner.example.org/hush');
+}, 120_000);
+
+afterAll(() => {
+  for (const dir of [out, altOut]) if (dir) rmSync(dir, { recursive: true, force: true });
+});
+
+interface Param {
+  name: string;
+  type: string;
+  optional?: boolean;
+  dimensionality?: string;
+  description?: string;
+}
+interface FunctionMeta {
+  id: string;
+  name: string;
+  description: string;
+  parameters: Param[];
+  result: { type: string; dimensionality?: string };
+  options?: Record<string, boolean>;
+}
+
+/** The expected worksheet signature of each function: [name, type, optional] per parameter, and the result. */
+const budgetTail: [string, string, boolean][] = [
+  ['coupling', 'number', true],
+  ['faces', 'number', true],
+  ['phase', 'string', true],
+  ['share', 'number', true],
+];
+const reflectionParams: [string, string, boolean][] = [
+  ['layers', 'number', false],
+  ['order', 'number', false],
+  ['ppw', 'number', false],
+  ['angle_deg', 'number', true],
+  ['strength', 'number', true],
+  ['kappa_max', 'number', true],
+  ['alpha_max_norm', 'number', true],
+  ['alpha_order', 'number', true],
+  ['courant', 'number', true],
+  ['index', 'number', true],
+  ['dimensions', 'number', true],
+];
+const expected: Record<string, { params: [string, string, boolean][]; result: string; matrix: boolean }> = {
+  NEEDED_REFLECTION: { params: [['intensity_error', 'number', false], ...budgetTail], result: 'number', matrix: false },
+  ERROR_FROM_REFLECTION: { params: [['amplitude', 'number', false], ...budgetTail], result: 'number', matrix: false },
+  REFLECTION: { params: reflectionParams, result: 'number', matrix: false },
+  REFLECTION_CONTINUOUS: { params: reflectionParams, result: 'number', matrix: false },
+  RIPPLE: {
+    params: [['amplitude', 'number', false], ['distance_m', 'number', false], ['group_index', 'number', true], ['coupling', 'number', true]],
+    result: 'number',
+    matrix: true,
+  },
+  RIPPLE_SOURCE: {
+    params: [['peak_to_peak', 'number', false], ['period_hz', 'number', false], ['group_index', 'number', true], ['coupling', 'number', true]],
+    result: 'number',
+    matrix: true,
+  },
+  MODEL_VERSION: { params: [], result: 'string', matrix: false },
+};
+
+function metadata(dir = out): FunctionMeta[] {
+  return JSON.parse(readFileSync(path.join(dir, 'functions.json'), 'utf8')).functions;
+}
+
+describe('generated functions.json', () => {
+  it('lists exactly the HUSH functions, each with its parameters, optional flags, dimensionality and result type', () => {
+    const fns = metadata();
+    expect(fns.map((f) => f.id).sort()).toEqual(Object.keys(expected).sort());
+    for (const f of fns) {
+      const e = expected[f.id];
+      expect(f.name).toBe(f.id);
+      expect(f.parameters.map((p) => [p.name, p.type, Boolean(p.optional)]), f.id).toEqual(e.params);
+      for (const p of f.parameters) {
+        expect(p.dimensionality ?? 'scalar', `${f.id}.${p.name}`).toBe('scalar');
+        expect(p.description, `${f.id}.${p.name} is described`).toBeTruthy();
+      }
+      expect(f.result.type, f.id).toBe(e.result);
+      expect(f.result.dimensionality ?? 'scalar', f.id).toBe(e.matrix ? 'matrix' : 'scalar');
+      // Pure functions of their arguments: nothing volatile, streaming or cancelable.
+      expect(f.options ?? {}, f.id).toEqual({});
+    }
+  });
+
+  it('describes each function with its worked example, so Excel users see it too', () => {
+    for (const f of metadata()) {
+      expect(f.description).toMatch(new RegExp(`Example: =HUSH\\.${f.id}\\(`));
+    }
+  });
+
+  it('optional parameters state their default', () => {
+    for (const f of metadata()) {
+      for (const p of f.parameters.filter((q) => q.optional)) {
+        expect(p.description, `${f.id}.${p.name}`).toMatch(/Default /);
+      }
+    }
+  });
+});
+
+describe('bundles and page', () => {
+  it('functions.js registers every function through the generated associate calls', () => {
+    const js = readFileSync(path.join(out, 'functions.js'), 'utf8');
+    for (const id of Object.keys(expected)) expect(js).toContain(`CustomFunctions.associate("${id}"`);
+  });
+
+  it('taskpane.html loads Office.js first, then both chunks (shared runtime), under a CSP with connect-src \'self\'', () => {
+    const html = readFileSync(path.join(out, 'taskpane.html'), 'utf8');
+    const office = html.indexOf('appsforoffice.microsoft.com/lib/1/hosted/office.js');
+    const taskpane = html.search(/src="?taskpane\.js/);
+    const fns = html.search(/src="?functions\.js/);
+    expect(office).toBeGreaterThan(-1);
+    expect(taskpane).toBeGreaterThan(office);
+    expect(fns).toBeGreaterThan(office);
+    const csp = /http-equiv="?Content-Security-Policy"?\s+content="([^"]+)"/.exec(html);
+    expect(csp).not.toBeNull();
+    const directives = Object.fromEntries(
+      csp![1].split(';').map((d) => {
+        const [name, ...values] = d.trim().split(/\s+/);
+        return [name, values];
+      }),
+    );
+    expect(directives['connect-src']).toEqual(["'self'"]);
+    expect(directives['default-src']).toEqual(["'self'"]);
+    expect(directives['script-src']).not.toContain("'unsafe-eval'");
+  });
+
+  it('no eval in the bundles (the CSP forbids it)', () => {
+    for (const f of ['functions.js', 'taskpane.js']) {
+      expect(readFileSync(path.join(out, f), 'utf8')).not.toMatch(/\beval\(/);
+    }
+  });
+
+  it('copies the manifest, the stylesheet and every icon the manifest names', () => {
+    const manifest = readFileSync(path.join(out, 'manifest.xml'), 'utf8');
+    expect(manifest).toBe(readFileSync(path.join(root, 'manifest.xml'), 'utf8'));
+    expect(existsSync(path.join(out, 'taskpane.css'))).toBe(true);
+    for (const m of manifest.matchAll(/https:\/\/localhost:3000\/(assets\/[\w.-]+\.png)/g)) {
+      expect(existsSync(path.join(out, m[1])), m[1]).toBe(true);
+    }
+  });
+
+  it('publicUrl rewrites every dev URL in the copied manifest, and nothing else changes', () => {
+    const manifest = readFileSync(path.join(altOut, 'manifest.xml'), 'utf8');
+    expect(manifest).not.toContain('https://localhost:3000/');
+    expect(manifest).toContain('https://planner.example.org/hush/taskpane.html');
+    expect(manifest.split('https://planner.example.org/hush/').join('https://localhost:3000/')).toBe(
+      readFileSync(path.join(root, 'manifest.xml'), 'utf8'),
+    );
+  });
+});
+
+describe('http dev server (no certificates)', () => {
+  let server: ChildProcess | undefined;
+
+  afterAll(() => {
+    if (server && server.exitCode === null) server.kill('SIGTERM');
+  });
+
+  async function freePort(): Promise<number> {
+    return new Promise((resolve, reject) => {
+      const s = net.createServer();
+      s.once('error', reject);
+      s.listen(0, '127.0.0.1', () => {
+        const port = (s.address() as net.AddressInfo).port;
+        s.close(() => resolve(port));
+      });
+    });
+  }
+
+  it('serves taskpane.html and functions.json over http', async () => {
+    const port = await freePort();
+    server = spawn(process.execPath, [webpackCli, 'serve', '--mode', 'development', '--env', 'http', '--env', `port=${port}`], {
+      cwd: root,
+      env: { ...process.env, NO_COLOR: '1' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let log = '';
+    server.stdout!.on('data', (d) => (log += d));
+    server.stderr!.on('data', (d) => (log += d));
+    const base = `http://127.0.0.1:${port}`;
+    const deadline = Date.now() + 45_000;
+    let page: Response | undefined;
+    while (Date.now() < deadline && server.exitCode === null) {
+      try {
+        page = await fetch(`${base}/taskpane.html`);
+        if (page.ok) break;
+      } catch {
+        // not listening yet
+      }
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    expect(page?.ok, `dev server did not answer:\n${log}`).toBe(true);
+    expect(await page!.text()).toContain('functions.js');
+    const meta = await fetch(`${base}/functions.json`);
+    expect(meta.ok).toBe(true);
+    const ids = ((await meta.json()) as { functions: FunctionMeta[] }).functions.map((f) => f.id);
+    expect(ids).toContain('NEEDED_REFLECTION');
+    expect(log).not.toMatch(/certificate/i);
+  }, 60_000);
+});

@@ -1,0 +1,139 @@
+/**
+ * Every worksheet function documents a worked example in its JSDoc, as
+ *   Example: =HUSH.NAME(arg, , "text") → 0.00498756211208903
+ * (a number to 15 significant digits, "text", or an Excel array {a, b; c, d}).
+ * This test reads src/functions/functions.ts, finds every example, evaluates
+ * it by calling the function the way Excel would (an omitted argument is null),
+ * and checks the printed result digit for digit: the documentation cannot drift
+ * from the code.
+ */
+import { readFileSync } from 'fs';
+import path from 'path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import * as functions from '../src/functions/functions';
+
+interface Example {
+  id: string;
+  exportName: string;
+  formula: string;
+  args: unknown[];
+  expected: unknown;
+}
+
+const source = readFileSync(path.join(__dirname, '../src/functions/functions.ts'), 'utf8');
+
+/** Splits a formula's argument list at top-level commas (not inside quotes or braces). */
+function splitTopLevel(text: string, separators: string): string[] {
+  const parts: string[] = [];
+  let depth = 0;
+  let quoted = false;
+  let current = '';
+  for (const ch of text) {
+    if (ch === '"') quoted = !quoted;
+    if (!quoted && ch === '{') depth++;
+    if (!quoted && ch === '}') depth--;
+    if (!quoted && depth === 0 && separators.includes(ch)) {
+      parts.push(current);
+      current = '';
+    } else {
+      current += ch;
+    }
+  }
+  parts.push(current);
+  return parts;
+}
+
+/** An Excel literal: number, "text", TRUE/FALSE, {array}; an empty argument is omitted (null). */
+function literal(text: string): unknown {
+  const t = text.trim();
+  if (t === '') return null;
+  if (t.startsWith('"') && t.endsWith('"')) return t.slice(1, -1).replace(/""/g, '"');
+  if (/^(TRUE|FALSE)$/i.test(t)) return t.toUpperCase() === 'TRUE';
+  if (t.startsWith('{') && t.endsWith('}')) {
+    return t
+      .slice(1, -1)
+      .split(';')
+      .map((row) => splitTopLevel(row, ',').map(literal));
+  }
+  const n = Number(t);
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t) || !Number.isFinite(n)) throw new Error(`cannot read the literal ${t}`);
+  return n;
+}
+
+function collectExamples(): { examples: Example[]; functionIds: string[] } {
+  const examples: Example[] = [];
+  const functionIds: string[] = [];
+  const block = /\/\*\*([\s\S]*?)\*\/\s*export function (\w+)/g;
+  for (const m of source.matchAll(block)) {
+    const doc = m[1];
+    const exportName = m[2];
+    const tag = /@customfunction\s+(\w+)/.exec(doc);
+    if (!tag) continue;
+    const id = tag[1];
+    functionIds.push(id);
+    for (const line of doc.split('\n')) {
+      const ex = /Example:\s*(=HUSH\.(\w+)\((.*)\))\s*→\s*(.+?)\s*$/.exec(line.replace(/^\s*\*\s?/, ''));
+      if (!ex) continue;
+      const [, formula, name, argText, result] = ex;
+      expect(name, `example "${formula}" sits on the JSDoc of HUSH.${id}`).toBe(id);
+      const args = argText.trim() === '' ? [] : splitTopLevel(argText, ',').map(literal);
+      examples.push({ id, exportName, formula, args, expected: literal(result) });
+    }
+  }
+  return { examples, functionIds };
+}
+
+const { examples, functionIds } = collectExamples();
+
+/** Compares a computed value with the printed one: strings exactly, numbers to 15 significant digits. */
+function expectAsPrinted(actual: unknown, expected: unknown): void {
+  if (Array.isArray(expected)) {
+    expect(Array.isArray(actual)).toBe(true);
+    const a = actual as unknown[][];
+    const e = expected as unknown[][];
+    expect(a.length).toBe(e.length);
+    e.forEach((row, i) => {
+      expect(a[i].length).toBe(row.length);
+      row.forEach((cell, j) => expectAsPrinted(a[i][j], cell));
+    });
+    return;
+  }
+  if (typeof expected === 'number') {
+    expect(typeof actual).toBe('number');
+    // The printed value is the result rounded to 15 significant digits (trailing zeros dropped),
+    // so a short print such as 0.004 passes only if the result is 0.004 to 15 digits.
+    expect(Number((actual as number).toPrecision(15))).toBe(expected);
+    return;
+  }
+  expect(actual).toBe(expected);
+}
+
+describe('worked examples in the worksheet functions’ JSDoc', () => {
+  beforeAll(() => {
+    // Examples never raise worksheet errors; a stub keeps a failing one readable.
+    (globalThis as Record<string, unknown>).CustomFunctions ??= {
+      Error: class extends Error {
+        constructor(
+          public code: string,
+          message?: string,
+        ) {
+          super(`${code} ${message ?? ''}`);
+        }
+      },
+      ErrorCode: { invalidValue: '#VALUE!', invalidNumber: '#NUM!' },
+    };
+  });
+
+  it('every HUSH function has at least one example', () => {
+    expect(functionIds.length).toBeGreaterThanOrEqual(7);
+    for (const id of functionIds) {
+      expect(examples.filter((e) => e.id === id).length, `HUSH.${id} has an Example: line`).toBeGreaterThan(0);
+    }
+  });
+
+  it.each(examples.map((e) => [e.formula, e] as const))('%s', (_formula, e) => {
+    const fn = (functions as Record<string, unknown>)[e.exportName] as (...args: unknown[]) => unknown;
+    expect(typeof fn).toBe('function');
+    expectAsPrinted(fn(...e.args), e.expected);
+  });
+});

@@ -1,0 +1,325 @@
+/**
+ * HUSH.* worksheet functions called the way Excel calls them: numbers, numeric
+ * text, null/undefined/"" for omitted or empty arguments, 0 from an empty cell,
+ * 1×1 and larger ranges as 2-D arrays, TRUE/FALSE. A stub of the global
+ * CustomFunctions records every worksheet error the functions raise.
+ */
+import { afterEach, beforeAll, describe, expect, it } from 'vitest';
+import {
+  MODEL_VERSION,
+  SPEED_OF_LIGHT,
+  HushInputError,
+  intensityErrorFromAmplitude,
+  reflection,
+  reflectionFromRipple,
+  requiredAmplitude,
+  rippleFromReflection,
+} from '../src/physics';
+import {
+  errorFromReflection,
+  modelVersion,
+  neededReflection,
+  reflectionContinuous,
+  reflectionExact,
+  ripple,
+  rippleSource,
+} from '../src/functions/functions';
+import { isBlank, numberList, optionalChoice, optionalNumber, requiredNumber, singleValue } from '../src/functions/args';
+import { toWorksheetError } from '../src/functions/errors';
+import pkg from '../package.json';
+
+class StubWorksheetError extends Error {
+  constructor(
+    public readonly code: string,
+    message?: string,
+  ) {
+    super(message);
+  }
+}
+
+const raised: StubWorksheetError[] = [];
+
+beforeAll(() => {
+  (globalThis as Record<string, unknown>).CustomFunctions = {
+    Error: class extends StubWorksheetError {
+      constructor(code: string, message?: string) {
+        super(code, message);
+        raised.push(this);
+      }
+    },
+    ErrorCode: { invalidValue: '#VALUE!', invalidNumber: '#NUM!', notAvailable: '#N/A', divisionByZero: '#DIV/0!', invalidName: '#NAME?', nullReference: '#NULL!' },
+  };
+});
+
+afterEach(() => {
+  raised.length = 0;
+});
+
+type Loose = (...args: unknown[]) => unknown;
+
+/** Calls a worksheet function with anything Excel might pass. */
+function call(fn: unknown, ...args: unknown[]): unknown {
+  return (fn as Loose)(...args);
+}
+
+/** Relative closeness: the shell must return what the core computes, to rounding. */
+function expectRelative(actual: number, expected: number, tolerance = 1e-13): void {
+  expect(Math.abs(actual / expected - 1)).toBeLessThan(tolerance);
+}
+
+/** What the core says about the same input: the worksheet shows the core's message, not its own. */
+function coreRefusal(compute: () => unknown): { code: string; message: string } {
+  try {
+    compute();
+  } catch (e) {
+    expect(e).toBeInstanceOf(HushInputError);
+    const h = e as HushInputError;
+    return { code: h.kind === 'value' ? '#VALUE!' : '#NUM!', message: h.message };
+  }
+  throw new Error('expected the core to refuse this input');
+}
+
+/** The worksheet error a call raises, as Excel would show it. */
+function errorOf(fn: unknown, ...args: unknown[]): { code: string; message?: string } {
+  try {
+    call(fn, ...args);
+  } catch (e) {
+    expect(e).toBeInstanceOf(StubWorksheetError);
+    expect(raised).toContain(e);
+    const w = e as StubWorksheetError;
+    return { code: w.code, message: w.message };
+  }
+  throw new Error('expected a worksheet error');
+}
+
+describe('HUSH.NEEDED_REFLECTION', () => {
+  const worst1 = Math.sqrt(1.01) - 1; // physics.md §1: |r| = (√(1+ε) − 1)/c (derived)
+
+  it('1 % worst case → √1.01 − 1 (physics.md §1, derived)', () => {
+    expectRelative(neededReflection(0.01), worst1);
+  });
+
+  it('omitted optional arguments arrive as null, undefined or "" and all mean the default', () => {
+    for (const blank of [null, undefined, '', '  ']) {
+      expect(call(neededReflection, 0.01, blank, blank, blank, blank)).toBe(neededReflection(0.01));
+    }
+  });
+
+  it('numbers typed as text and 1×1 ranges are read as numbers', () => {
+    expect(call(neededReflection, '0.01')).toBe(neededReflection(0.01));
+    expect(call(neededReflection, ' 1e-2 ')).toBe(neededReflection(0.01));
+    expect(call(neededReflection, [[0.01]])).toBe(neededReflection(0.01));
+    expect(call(neededReflection, 0.01, [['0.5']])).toBe(neededReflection(0.01, 0.5));
+  });
+
+  it('worst case: K faces share the budget linearly, coupling c divides (physics.md §1, derived)', () => {
+    expectRelative(neededReflection(0.01, 1, 2), worst1 / 2);
+    expectRelative(neededReflection(0.01, 0.5), worst1 / 0.5);
+  });
+
+  it('phase is matched without regard to case and gives the core random-phase answer (independent call of the core)', () => {
+    const expected = requiredAmplitude({ intensityError: 0.01, faces: 2, phase: 'random' });
+    expect(neededReflection(0.01, 1, 2, 'random')).toBe(expected);
+    expect(neededReflection(0.01, 1, 2, ' RANDOM ')).toBe(expected);
+  });
+
+  it('a share F of the budget: the absorber gets ε·F (physics.md §1, derived)', () => {
+    expectRelative(neededReflection(0.01, 1, 1, 'worst', 0.5), Math.sqrt(1.005) - 1);
+  });
+
+  it('a missing required argument is #VALUE! naming it', () => {
+    for (const blank of [null, undefined, '']) {
+      expect(errorOf(neededReflection, blank)).toEqual({ code: '#VALUE!', message: 'intensity error is required' });
+    }
+  });
+
+  it('text, TRUE and ranges where one value belongs are #VALUE!', () => {
+    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: 'intensity error must be a number (got "one percent")' });
+    expect(errorOf(neededReflection, '0x10').code).toBe('#VALUE!');
+    expect(errorOf(neededReflection, true)).toEqual({ code: '#VALUE!', message: 'intensity error must be a number (got TRUE)' });
+    expect(errorOf(neededReflection, [[0.01, 0.02]])).toEqual({
+      code: '#VALUE!',
+      message: 'intensity error must be a single value, not a range of 1×2 cells',
+    });
+    expect(errorOf(neededReflection, 0.01, 1, 1, 'best')).toEqual({ code: '#VALUE!', message: 'phase must be "worst" or "random" (got "best")' });
+    expect(errorOf(neededReflection, 0.01, 1, 1, 3).code).toBe('#VALUE!');
+  });
+
+  it('numbers outside the model are #NUM! with the core message (an empty cell passed as 0 included)', () => {
+    const cases: [unknown[], () => unknown][] = [
+      [[0], () => requiredAmplitude({ intensityError: 0 })],
+      [[2], () => requiredAmplitude({ intensityError: 2 })],
+      [[0.01, 0], () => requiredAmplitude({ intensityError: 0.01, coupling: 0 })],
+      [[0.01, 1, 1.5], () => requiredAmplitude({ intensityError: 0.01, faces: 1.5 })],
+    ];
+    for (const [args, core] of cases) {
+      const expected = coreRefusal(core);
+      expect(expected.code).toBe('#NUM!');
+      expect(errorOf(neededReflection, ...args)).toEqual(expected);
+    }
+    expect(errorOf(neededReflection, 0.01, 1, 1.5).message).toMatch(/^faces /);
+  });
+});
+
+describe('HUSH.ERROR_FROM_REFLECTION', () => {
+  it('|r| = 0.005 → (1.005)² − 1 = 0.010025 (physics.md §1, derived)', () => {
+    expect(errorFromReflection(0.005)).toBeCloseTo(0.010025, 15);
+  });
+
+  it('inverts HUSH.NEEDED_REFLECTION for every phase model (derived)', () => {
+    for (const phase of ['worst', 'random']) {
+      const r = neededReflection(0.02, 0.7, 3, phase, 0.4);
+      expect(errorFromReflection(r, 0.7, 3, phase, 0.4)).toBeCloseTo(0.02, 14);
+    }
+  });
+
+  it('|r| ≥ 1 is #NUM!; |r| = "" is #VALUE! (required)', () => {
+    expect(errorOf(errorFromReflection, 1)).toEqual(coreRefusal(() => intensityErrorFromAmplitude(1)));
+    expect(errorOf(errorFromReflection, 1).code).toBe('#NUM!');
+    expect(errorOf(errorFromReflection, '')).toEqual({ code: '#VALUE!', message: 'amplitude reflection is required' });
+  });
+});
+
+describe('HUSH.REFLECTION and HUSH.REFLECTION_CONTINUOUS', () => {
+  it('equal the core reflection for the same design and wave (independent call of the core)', () => {
+    expect(reflectionExact(10, 3, 20)).toBe(reflection({ layers: 10, order: 3 }, { ppw: 20 }).amplitude);
+    const d = { layers: 8, order: 3, strength: 1.2, kappaMax: 5, alphaMaxNorm: 0.05, alphaOrder: 1 };
+    const w = { ppw: 40, angleDeg: 45, courant: 0.5, index: 1.5, dimensions: 3 };
+    const r = reflection(d, w);
+    expect(reflectionExact(8, 3, 40, 45, 1.2, 5, 0.05, 1, 0.5, 1.5, 3)).toBe(r.amplitude);
+    expect(reflectionContinuous(8, 3, 40, 45, 1.2, 5, 0.05, 1, 0.5, 1.5, 3)).toBe(r.continuous);
+  });
+
+  it('continuous theory at σ_opt, normal incidence: R = e^{−1.6·N} (physics.md §2, derived)', () => {
+    expect(reflectionContinuous(10, 3, 20)).toBeCloseTo(Math.exp(-16), 20);
+    expect(reflectionContinuous(5, 4, 15) / Math.exp(-8)).toBeCloseTo(1, 12);
+  });
+
+  it('the discrete reflection exceeds the continuous promise at N = 10 (physics.md §2: 10⁻⁷ promised, 10⁻⁵–10⁻⁶ on the grid)', () => {
+    const exact = reflectionExact(10, 3, 20);
+    expect(exact).toBeGreaterThan(1e-6);
+    expect(exact).toBeLessThan(1e-4);
+    expect(exact).toBeGreaterThan(100 * reflectionContinuous(10, 3, 20));
+  });
+
+  it('arguments as text, empty optionals as "" or null, and 1×1 ranges', () => {
+    const expected = reflectionExact(12, 4, 25, 30);
+    expect(call(reflectionExact, '12', '4', '25', '30')).toBe(expected);
+    expect(call(reflectionExact, [[12]], 4, 25, 30, '', null, undefined, '', null, '', '')).toBe(expected);
+  });
+
+  it('out-of-range designs and waves are #NUM! with the core message', () => {
+    expect(errorOf(reflectionExact, 0, 3, 20)).toEqual({ code: '#NUM!', message: 'layers must be a whole number from 1 to 200 (got 0)' });
+    expect(errorOf(reflectionExact, 2.5, 3, 20)).toEqual({ code: '#NUM!', message: 'layers must be a whole number from 1 to 200 (got 2.5)' });
+    expect(errorOf(reflectionExact, 10, 3, 20, 90).code).toBe('#NUM!');
+    const aboveLimit = coreRefusal(() => reflection({ layers: 10, order: 3 }, { ppw: 20, courant: 0.9 }));
+    expect(aboveLimit.code).toBe('#NUM!');
+    expect(errorOf(reflectionExact, 10, 3, 20, 0, 1, 1, 0, 1, 0.9)).toEqual(aboveLimit);
+    const oblique1d = coreRefusal(() => reflection({ layers: 10, order: 3 }, { ppw: 20, angleDeg: 10, courant: 0.5, dimensions: 1 }));
+    expect(oblique1d.code).toBe('#NUM!');
+    expect(errorOf(reflectionExact, 10, 3, 20, 10, 1, 1, 0, 1, 0.5, 1, 1)).toEqual(oblique1d);
+  });
+
+  it('missing or non-numeric required arguments are #VALUE!', () => {
+    expect(errorOf(reflectionExact, 10, 3, null)).toEqual({ code: '#VALUE!', message: 'cells per wavelength is required' });
+    expect(errorOf(reflectionExact, 'ten', 3, 20)).toEqual({ code: '#VALUE!', message: 'layers must be a number (got "ten")' });
+    expect(errorOf(reflectionContinuous, 10, [[3], [4]], 20)).toEqual({
+      code: '#VALUE!',
+      message: 'grading order must be a single value, not a range of 2×1 cells',
+    });
+  });
+});
+
+describe('HUSH.RIPPLE and HUSH.RIPPLE_SOURCE', () => {
+  it('spill one row: swing 4c|r| and period c₀/(2·n_g·L) (physics.md §1, derived)', () => {
+    const row = ripple(0.001, 0.1);
+    expect(row).toHaveLength(1);
+    expect(row[0]).toHaveLength(2);
+    expect(row[0][0]).toBeCloseTo(0.004, 16);
+    expect(row[0][1]).toBe(SPEED_OF_LIGHT / 0.2);
+    const scaled = ripple(0.001, 0.1, 1.5, 0.5);
+    expect(scaled[0][0]).toBeCloseTo(0.002, 16);
+    expect(scaled[0][1]).toBeCloseTo(SPEED_OF_LIGHT / 0.3, 6);
+  });
+
+  it('RIPPLE_SOURCE inverts RIPPLE (derived)', () => {
+    const [[swing, period]] = ripple(0.003, 0.25, 2, 0.8);
+    const [[amplitude, distance]] = rippleSource(swing, period, 2, 0.8);
+    expect(amplitude).toBeCloseTo(0.003, 15);
+    expect(distance).toBeCloseTo(0.25, 14);
+  });
+
+  it('optional arguments omitted in any form give group index 1 and coupling 1', () => {
+    for (const blank of [null, undefined, '']) {
+      expect(call(ripple, 0.001, 0.1, blank, blank)).toEqual(ripple(0.001, 0.1, 1, 1));
+      expect(call(rippleSource, '0.004', '1.5e9', blank, blank)).toEqual(rippleSource(0.004, 1.5e9, 1, 1));
+    }
+  });
+
+  it('impossible inputs are #NUM!, missing ones #VALUE!', () => {
+    expect(errorOf(ripple, 0.001, 0)).toEqual(coreRefusal(() => rippleFromReflection(0.001, 0)));
+    expect(errorOf(ripple, 0.001, 0).code).toBe('#NUM!');
+    expect(errorOf(rippleSource, 4, 1e9)).toEqual(coreRefusal(() => reflectionFromRipple(4, 1e9)));
+    expect(errorOf(rippleSource, 2, 1e9, 1, 0.25)).toEqual(coreRefusal(() => reflectionFromRipple(2, 1e9, 1, 0.25)));
+    expect(errorOf(rippleSource, 2, 1e9, 1, 0.25).code).toBe('#NUM!');
+    expect(errorOf(ripple, 0.001, '')).toEqual({ code: '#VALUE!', message: 'distance is required' });
+  });
+});
+
+describe('HUSH.MODEL_VERSION', () => {
+  it('names the add-in version (package.json) and the model version (constants.ts)', () => {
+    expect(modelVersion()).toBe(`Hush ${pkg.version}, model ${MODEL_VERSION}`);
+  });
+});
+
+describe('worksheet errors', () => {
+  it('HushInputError kind "value" → #VALUE!, "number" → #NUM!, with the message', () => {
+    expect(toWorksheetError(new HushInputError('x', 'x must be a number', 'value'))).toMatchObject({ code: '#VALUE!', message: 'x must be a number' });
+    expect(toWorksheetError(new HushInputError('x', 'x must be at most 1', 'number'))).toMatchObject({ code: '#NUM!', message: 'x must be at most 1' });
+  });
+
+  it('anything else is #VALUE! marked as an internal error, never a silent value', () => {
+    expect(toWorksheetError(new Error('boom'))).toMatchObject({ code: '#VALUE!', message: 'internal error: boom' });
+    expect(toWorksheetError('odd')).toMatchObject({ code: '#VALUE!', message: 'internal error: odd' });
+  });
+});
+
+describe('argument normalisation (src/functions/args.ts)', () => {
+  it('blank means null, undefined, "" or blank text, and nothing else (0 is a number)', () => {
+    expect([null, undefined, '', ' \t'].every(isBlank)).toBe(true);
+    expect([0, '0', false, [[]]].some(isBlank)).toBe(false);
+  });
+
+  it('single values unwrap 1×1 ranges in both row and flat form', () => {
+    expect(singleValue('x', [[7]])).toBe(7);
+    expect(singleValue('x', [7])).toBe(7);
+    expect(singleValue('x', 7)).toBe(7);
+    expect(() => singleValue('x', [[1], [2]])).toThrow('x must be a single value, not a range of 2×1 cells');
+  });
+
+  it('numbers: decimal text only, defaults only for blanks', () => {
+    expect(requiredNumber('x', '-.5e+2')).toBe(-50);
+    expect(optionalNumber('x', null, 3)).toBe(3);
+    expect(optionalNumber('x', '', 3)).toBe(3);
+    expect(optionalNumber('x', 0, 3)).toBe(0);
+    expect(optionalNumber('x', undefined)).toBeUndefined();
+    expect(() => requiredNumber('x', '1,5')).toThrow('x must be a number (got "1,5")');
+    expect(() => requiredNumber('x', 'Infinity')).toThrow(HushInputError);
+    expect(() => requiredNumber('x', { type: 'Error' })).toThrow('x must be a number (got an error or object value)');
+  });
+
+  it('choices match case-insensitively and fall back only when blank', () => {
+    expect(optionalChoice('phase', 'Worst', ['worst', 'random'] as const, 'random')).toBe('worst');
+    expect(optionalChoice('phase', null, ['worst', 'random'] as const, 'random')).toBe('random');
+    expect(() => optionalChoice('phase', 'both', ['worst', 'random'] as const, 'worst')).toThrow('phase must be "worst" or "random" (got "both")');
+  });
+
+  it('lists read ranges row by row, skip empty cells, and accept a single value', () => {
+    expect(numberList('orders', [[2, 3], [null, '4']])).toEqual([2, 3, 4]);
+    expect(numberList('orders', [[2], [''], [4]])).toEqual([2, 4]);
+    expect(numberList('orders', 3)).toEqual([3]);
+    expect(numberList('orders', [['', null]], [2, 3, 4])).toEqual([2, 3, 4]);
+    expect(() => numberList('orders', null)).toThrow('orders needs at least one number');
+    expect(() => numberList('orders', [[2, 'x']])).toThrow('orders must be a number (got "x")');
+  });
+});
