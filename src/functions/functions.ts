@@ -68,7 +68,7 @@ export function neededReflection(
 
 /**
  * Relative intensity error at a monitor caused by an amplitude reflection |r| per absorbing face (the inverse of HUSH.NEEDED_REFLECTION).
- * Example: =HUSH.ERROR_FROM_REFLECTION(0.005) → 0.0100249999999997
+ * Example: =HUSH.ERROR_FROM_REFLECTION(0.005) → 0.010025
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.001, , , "random") → 0.00141421391592644
  * @customfunction ERROR_FROM_REFLECTION
  * @param amplitude Amplitude reflection |r| of one face, 0 ≤ |r| < 1 (not the power reflection |r|²).

@@ -67,7 +67,8 @@ export function echoAmplitudeForError(error: number, phase: PhaseModel): number 
 
 /** Intensity error ε caused by an echo of amplitude A under a phase model. */
 export function errorForEchoAmplitude(a: number, phase: PhaseModel): number {
-  return phase === 'worst' ? (1 + a) * (1 + a) - 1 : a * Math.sqrt(2 + a * a);
+  // (1 + A)² − 1 = A·(2 + A), written without cancellation.
+  return phase === 'worst' ? a * (2 + a) : a * Math.sqrt(2 + a * a);
 }
 
 /**
