@@ -9,3 +9,6 @@ export * from './reflection';
 export * from './budget';
 export * from './ripple';
 export * from './design';
+export * from './domain';
+export * from './ringdown';
+export * from './cost';

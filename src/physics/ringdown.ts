@@ -1,0 +1,23 @@
+/**
+ * Ring-down time of a resonance (physics.md §5). A mode of quality factor Q at
+ * angular frequency ω loses energy at the rate ω/Q, so its amplitude decays as
+ * e^{−ωt/(2Q)}; reaching a relative amplitude δ takes
+ *   t = 2Q·ln(1/δ)/ω                                                  (derived)
+ * (Q = ω·stored energy / power lost; Jackson, Classical Electrodynamics, §8.8).
+ */
+import { inRange } from './validate';
+
+/** Largest quality factor accepted (10¹²; beyond it no time-domain run is sensible). */
+export const MAX_QUALITY_FACTOR = 1e12;
+
+/**
+ * Seconds for a resonance of quality factor `q` at frequency `frequencyHz` to
+ * ring down to relative amplitude `target`.
+ * Example: ringdownTime(1000, 1e9, 1e-3) = 2·1000·ln(1000)/(2π·10⁹) = 2.198806…e-6 s.
+ */
+export function ringdownTime(q: number, frequencyHz: number, target: number): number {
+  const Q = inRange('quality factor', q, 0, MAX_QUALITY_FACTOR, { loOpen: true });
+  const f = inRange('ring-down frequency', frequencyHz, 0, Infinity, { loOpen: true, hiOpen: true, unit: 'Hz' });
+  const d = inRange('ring-down target', target, 0, 1, { loOpen: true, hiOpen: true });
+  return (2 * Q * Math.log(1 / d)) / (2 * Math.PI * f);
+}

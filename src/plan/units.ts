@@ -1,0 +1,187 @@
+/**
+ * Quantities with units, as typed in a project table or on the command line:
+ * "1550 nm", "193 THz", "0.8 um", "30 GHz", "2.5 h", "500 fs", "10 GB/s".
+ * A bare number takes the field's default unit (fields.ts lists them). Units
+ * are parsed by a limited mathjs instance (units only, created once); each
+ * distinct text is parsed once and cached. Values come back in SI, rounded to
+ * 12 significant digits so that "1550 nm" and "1.55 um" give the same number
+ * (the 16th digit of a unit conversion is noise, not input).
+ */
+import { create, unitDependencies, type Unit } from 'mathjs';
+import { SPEED_OF_LIGHT } from '../physics/constants';
+import { HushInputError } from '../physics/errors';
+
+const math = create({ unitDependencies });
+
+type MathUnit = Unit;
+
+/** Significant digits kept from a parsed value (see the module comment). */
+export const UNIT_DIGITS = 12;
+
+export function canonical(x: number): number {
+  return x === 0 ? 0 : Number(x.toPrecision(UNIT_DIGITS));
+}
+
+const BARE_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** What a cell holds: a number, text, or nothing. */
+export type FieldValue = string | number | boolean | null | undefined;
+
+/** True when a cell is empty (nothing, or only spaces). */
+export function isBlank(v: FieldValue): boolean {
+  return v === undefined || v === null || (typeof v === 'string' && v.trim() === '');
+}
+
+function describe(v: FieldValue): string {
+  return typeof v === 'string' ? v.trim() : String(v);
+}
+
+/** A bare number, or null when the text carries a unit. Throws on booleans. */
+function bareNumber(field: string, v: FieldValue): number | null {
+  if (typeof v === 'number') {
+    if (!Number.isFinite(v)) throw new HushInputError(field, `${field} must be a finite number (got ${v})`, 'value');
+    return v;
+  }
+  if (typeof v !== 'string') throw new HushInputError(field, `${field} must be a number or a quantity with a unit (got ${String(v)})`, 'value');
+  const t = v.trim();
+  return BARE_NUMBER.test(t) ? Number(t) : null;
+}
+
+const parsed = new Map<string, MathUnit | Error>();
+const PARSE_CACHE_LIMIT = 2000;
+
+function parseUnit(field: string, text: string, expected: string): MathUnit {
+  const t = text.trim().replace(/[µμ]/g, 'u');
+  let u = parsed.get(t);
+  if (u === undefined) {
+    try {
+      u = math.unit(t) as MathUnit;
+    } catch (e) {
+      u = e instanceof Error ? e : new Error(String(e));
+    }
+    if (parsed.size >= PARSE_CACHE_LIMIT) parsed.delete(parsed.keys().next().value as string);
+    parsed.set(t, u);
+  }
+  if (u instanceof Error) {
+    throw new HushInputError(field, `${field} must be ${expected} (got ${JSON.stringify(text.trim())}: ${u.message})`, 'value');
+  }
+  return u;
+}
+
+const reference = {
+  length: math.unit('1 m'),
+  frequency: math.unit('1 Hz'),
+  time: math.unit('1 s'),
+  angle: math.unit('1 rad'),
+  bandwidth: math.unit('1 B/s'),
+};
+
+function quantity(field: string, v: FieldValue, kind: keyof typeof reference, siUnit: string, defaultUnit: string, expected: string): number {
+  const bare = bareNumber(field, v);
+  if (bare !== null) return canonical(math.unit(bare, defaultUnit).toNumber(siUnit));
+  const u = parseUnit(field, v as string, expected);
+  if (!u.equalBase(reference[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
+  return canonical(u.toNumber(siUnit));
+}
+
+function positive(field: string, x: number, shown: FieldValue): number {
+  if (!(x > 0)) throw new HushInputError(field, `${field} must be greater than 0 (got ${describe(shown)})`);
+  return x;
+}
+
+/** A length in metres; bare numbers are in `defaultUnit`. */
+export function parseLength(field: string, v: FieldValue, defaultUnit = 'nm'): number {
+  return positive(field, quantity(field, v, 'length', 'm', defaultUnit, 'a length'), v);
+}
+
+/** A time in seconds. */
+export function parseTime(field: string, v: FieldValue, defaultUnit = 'fs'): number {
+  return positive(field, quantity(field, v, 'time', 's', defaultUnit, 'a time'), v);
+}
+
+/** A frequency in Hz. */
+export function parseFrequency(field: string, v: FieldValue, defaultUnit = 'THz'): number {
+  return positive(field, quantity(field, v, 'frequency', 'Hz', defaultUnit, 'a frequency'), v);
+}
+
+/** An angle in degrees (0 allowed); bare numbers are degrees. */
+export function parseAngle(field: string, v: FieldValue): number {
+  return canonical(quantity(field, v, 'angle', 'deg', 'deg', 'an angle'));
+}
+
+/** A network bandwidth in bytes per second; bare numbers are GB/s. */
+export function parseBandwidth(field: string, v: FieldValue): number {
+  return positive(field, quantity(field, v, 'bandwidth', 'B/s', 'GB/s', 'a data rate such as 10 GB/s'), v);
+}
+
+/**
+ * A vacuum wavelength in metres from a length or a frequency (λ = c/f).
+ * Example: parseWavelength('band_short', '193.414489032 THz') = 1.55e-6.
+ */
+export function parseWavelength(field: string, v: FieldValue, defaultUnit = 'nm'): number {
+  const expected = 'a length or a frequency';
+  const bare = bareNumber(field, v);
+  if (bare !== null) return positive(field, canonical(math.unit(bare, defaultUnit).toNumber('m')), v);
+  const u = parseUnit(field, v as string, expected);
+  if (u.equalBase(reference.length)) return positive(field, canonical(u.toNumber('m')), v);
+  if (u.equalBase(reference.frequency)) {
+    const f = positive(field, u.toNumber('Hz'), v);
+    return canonical(SPEED_OF_LIGHT / f);
+  }
+  throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
+}
+
+/** A plain number; "5 %" is 0.05. */
+export function parseNumber(field: string, v: FieldValue): number {
+  const bare = bareNumber(field, v);
+  if (bare !== null) return bare;
+  const t = (v as string).trim();
+  const m = /^(.*?)\s*%$/.exec(t);
+  if (m && BARE_NUMBER.test(m[1])) return canonical(Number(m[1]) / 100);
+  throw new HushInputError(field, `${field} must be a plain number (got ${JSON.stringify(t)})`, 'value');
+}
+
+/**
+ * A price per hour in any currency: "3", "3/h", "$3/h", "2.40 EUR/h",
+ * "3 per hour". The currency is not kept; the cost column is in the same one.
+ */
+export function parsePrice(field: string, v: FieldValue): number {
+  const bare = bareNumber(field, v);
+  if (bare !== null) return bare;
+  const t = (v as string).trim();
+  const m = /^([^\d+\-.\s]{0,4})\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([A-Za-z]{0,4}|[^\d\s/]{0,2})?\s*(?:(?:\/|per)\s*(h|hr|hour|node-hour|node-h|node hour))?$/i.exec(t);
+  if (!m) throw new HushInputError(field, `${field} must be a price per hour such as 3, 3/h or $3/h (got ${JSON.stringify(t)})`, 'value');
+  return Number(m[2]);
+}
+
+/** A gap: "5" or "5 cells" (cells), "0.5 wavelengths" / "0.5 λ" (in the medium), or a length. */
+export type Gap = { cells: number } | { wavelengths: number } | { metres: number };
+
+export function parseGap(field: string, v: FieldValue): Gap {
+  const bare = bareNumber(field, v);
+  if (bare !== null) return { cells: bare };
+  const t = (v as string).trim();
+  const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(cells?|wavelengths?|λ|lambda)$/i.exec(t);
+  if (m) return /^cell/i.test(m[2]) ? { cells: Number(m[1]) } : { wavelengths: Number(m[1]) };
+  const u = parseUnit(field, t, 'a number of cells, of wavelengths, or a length');
+  if (!u.equalBase(reference.length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
+  return { metres: canonical(u.toNumber('m')) };
+}
+
+/** A word from a fixed list (case-insensitive). */
+export function parseChoice<T extends string>(field: string, v: FieldValue, choices: readonly T[]): T {
+  const t = describe(v).toLowerCase();
+  const hit = choices.find((c) => c === t);
+  if (!hit) throw new HushInputError(field, `${field} must be one of ${choices.join(', ')} (got ${JSON.stringify(describe(v))})`, 'value');
+  return hit;
+}
+
+/** Whole numbers separated by commas or spaces: "2, 3, 4". */
+export function parseNumberList(field: string, v: FieldValue): number[] {
+  if (typeof v === 'number') return [v];
+  const parts = describe(v).split(/[\s,;]+/).filter(Boolean);
+  if (!parts.length || parts.some((p) => !BARE_NUMBER.test(p))) {
+    throw new HushInputError(field, `${field} must be a list of numbers such as 2, 3, 4 (got ${JSON.stringify(describe(v))})`, 'value');
+  }
+  return parts.map(Number);
+}
