@@ -9,6 +9,8 @@ import { reflectCommand, reflectUsage } from './reflect';
 import { budgetCommand, budgetUsage } from './budget';
 import { designCommand, designUsage } from './design';
 import { rippleCommand, rippleUsage } from './ripple';
+import { costCommand, costUsage } from './cost';
+import { planCommand, planUsage } from './plan';
 
 type Command = (argv: string[], io: CommandIO) => number | Promise<number>;
 
@@ -23,6 +25,8 @@ export const commands: Record<string, Entry> = {
   budget: { run: budgetCommand, usage: budgetUsage, summary: 'tolerated intensity error <-> required amplitude reflection' },
   design: { run: designCommand, usage: designUsage, summary: 'thinnest absorber that meets a target over a band and angles' },
   ripple: { run: rippleCommand, usage: rippleUsage, summary: 'spectral ripple of a reflection, or the reflection behind a ripple' },
+  cost: { run: costCommand, usage: costUsage, summary: 'cells, ψ, memory and steps of a domain with absorbers (planning estimate)' },
+  plan: { run: planCommand, usage: planUsage, summary: 'plan every study of a project table (.csv/.xlsx) and write the plan' },
 };
 
 export function registerCommand(name: string, entry: Entry): void {

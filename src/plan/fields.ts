@@ -43,7 +43,8 @@
  * | alpha_max        | CFS shift α_max in S/m                                         | 0                                |
  * | absorber_factor  | cost of an absorber cell update relative to an interior one    | 1.5                              |
  *
- * Any other column is kept in the output unchanged and ignored by the planner.
+ * A `remark` column (free text) and any other column are kept in the output
+ * unchanged and never read by the planner.
  */
 
 export interface InputField {

@@ -1,0 +1,163 @@
+/**
+ * Project tables on disk (Node only): CSV (csv.ts) or .xlsx (exceljs). The
+ * reader keeps every cell exactly as typed; the writer puts the input columns
+ * back unchanged and the plan outputs in added columns. Not part of the plan
+ * barrel, so the add-in bundle never pulls in exceljs.
+ */
+import { promises as fs } from 'fs';
+import * as path from 'path';
+import ExcelJS from 'exceljs';
+import { MODEL_VERSION } from '../physics/constants';
+import { HushInputError } from '../physics/errors';
+import { parseCsv, writeCsv } from './csv';
+import { INPUT_FIELDS, OUTPUT_COLUMNS, OUTPUT_NAMES, headerName, outputHeaderText } from './fields';
+import type { PlanCell } from './index';
+import type { FieldValue } from './units';
+
+export interface Table {
+  header: FieldValue[];
+  rows: FieldValue[][];
+}
+
+export type TableFormat = 'csv' | 'xlsx' | 'json';
+
+export function tableFormat(file: string): TableFormat | null {
+  const ext = path.extname(file).toLowerCase();
+  return ext === '.csv' ? 'csv' : ext === '.xlsx' ? 'xlsx' : ext === '.json' ? 'json' : null;
+}
+
+function cellText(v: ExcelJS.CellValue): FieldValue {
+  if (v === null || v === undefined) return '';
+  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
+  if (v instanceof Date) return v.toISOString();
+  if (typeof v === 'object') {
+    if ('result' in v) return cellText((v as ExcelJS.CellFormulaValue).result as ExcelJS.CellValue);
+    if ('richText' in v) return (v as ExcelJS.CellRichTextValue).richText.map((r) => r.text).join('');
+    if ('text' in v) return String((v as ExcelJS.CellHyperlinkValue).text);
+    if ('error' in v) return String((v as ExcelJS.CellErrorValue).error);
+  }
+  return String(v);
+}
+
+/** Reads the first worksheet of an .xlsx, or a CSV file; the first row is the header. */
+export async function readTable(file: string): Promise<Table> {
+  const format = tableFormat(file);
+  if (format === 'csv') {
+    const rows = parseCsv(await fs.readFile(file, 'utf8'));
+    if (!rows.length) throw new HushInputError('table', `${file} is empty: a project table needs a header row`, 'value');
+    return { header: rows[0], rows: rows.slice(1) };
+  }
+  if (format === 'xlsx') {
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(file);
+    const ws = wb.worksheets[0];
+    if (!ws || ws.rowCount === 0) throw new HushInputError('table', `${file} has no rows: a project table needs a header row`, 'value');
+    const width = ws.getRow(1).cellCount;
+    const read = (r: number) => {
+      const row = ws.getRow(r);
+      const out: FieldValue[] = [];
+      for (let c = 1; c <= width; c++) out.push(cellText(row.getCell(c).value));
+      return out;
+    };
+    const header = read(1);
+    const rows: FieldValue[][] = [];
+    for (let r = 2; r <= ws.rowCount; r++) rows.push(read(r));
+    while (rows.length && rows[rows.length - 1].every((v) => v === '')) rows.pop();
+    return { header, rows };
+  }
+  throw new HushInputError('table', `${file}: a project table must be a .csv or .xlsx file`, 'value');
+}
+
+/** Columns of the input table that are kept (everything but earlier plan outputs). */
+export function keptColumns(header: readonly FieldValue[]): number[] {
+  const outputs = new Set(OUTPUT_NAMES);
+  const keep: number[] = [];
+  header.forEach((h, k) => {
+    if (!outputs.has(headerName(h))) keep.push(k);
+  });
+  return keep;
+}
+
+export interface PlannedRow {
+  /** Values as read, full width of the input table. */
+  values: FieldValue[];
+  /** Output values in OUTPUT_COLUMNS order; null for a blank row. */
+  outputs: PlanCell[] | null;
+  failed: boolean;
+}
+
+export const ESTIMATE_NOTE =
+  'Runtime and cost are planning estimates from the throughput and price you give for your hardware, not measurements. ' +
+  'Before relying on a design, run a convergence check: repeat one study with the absorber a few layers thicker (or the gap larger) and confirm the monitored result does not change beyond your tolerance.';
+
+/** Writes the planned table to `file` (.csv, .xlsx or .json). */
+export async function writeTable(file: string, header: readonly FieldValue[], rows: readonly PlannedRow[]): Promise<void> {
+  const format = tableFormat(file);
+  const keep = keptColumns(header);
+  const outHeader = OUTPUT_COLUMNS.map(outputHeaderText);
+  if (format === 'csv') {
+    const lines: (FieldValue | PlanCell)[][] = [[...keep.map((k) => header[k]), ...outHeader]];
+    for (const r of rows) lines.push([...keep.map((k) => r.values[k]), ...(r.outputs ?? OUTPUT_NAMES.map(() => null))]);
+    await fs.writeFile(file, writeCsv(lines as (string | number | boolean | null)[][]), 'utf8');
+    return;
+  }
+  if (format === 'json') {
+    const list = rows.map((r, i) => {
+      const inputs: Record<string, FieldValue> = {};
+      for (const k of keep) inputs[String(header[k])] = r.values[k];
+      const outputs: Record<string, PlanCell> = {};
+      if (r.outputs) OUTPUT_NAMES.forEach((n, j) => (outputs[n] = (r.outputs as PlanCell[])[j]));
+      return { row: i + 2, inputs, outputs: r.outputs ? outputs : null, failed: r.failed };
+    });
+    await fs.writeFile(file, JSON.stringify({ model_version: MODEL_VERSION, note: ESTIMATE_NOTE, rows: list }, null, 2) + '\n', 'utf8');
+    return;
+  }
+  if (format !== 'xlsx') throw new HushInputError('out', `${file}: the plan can be written as .xlsx, .csv or .json`, 'value');
+  const wb = new ExcelJS.Workbook();
+  wb.creator = 'Hush';
+  const ws = wb.addWorksheet('plan', { views: [{ state: 'frozen', xSplit: 1, ySplit: 1 }] });
+  const nIn = keep.length;
+  ws.addRow([...keep.map((k) => header[k] as ExcelJS.CellValue), ...outHeader]);
+  for (const r of rows) {
+    ws.addRow([...keep.map((k) => r.values[k] as ExcelJS.CellValue), ...(r.outputs ?? []).map((v) => v as ExcelJS.CellValue)]);
+  }
+  const head = ws.getRow(1);
+  head.font = { bold: true };
+  head.alignment = { vertical: 'bottom', wrapText: true };
+  head.height = 32;
+  const inputFill: ExcelJS.Fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: 'FFEDEDED' } };
+  const outputFill: ExcelJS.Fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: 'FFDCE8F5' } };
+  for (let c = 1; c <= nIn; c++) {
+    const col = ws.getColumn(c);
+    col.width = Math.max(10, Math.min(28, String(header[keep[c - 1]] ?? '').length + 4));
+    head.getCell(c).fill = inputFill;
+  }
+  OUTPUT_COLUMNS.forEach((oc, j) => {
+    const c = nIn + 1 + j;
+    const col = ws.getColumn(c);
+    col.numFmt = oc.format;
+    col.width = oc.name === 'notes' ? 70 : Math.max(11, Math.min(24, outputHeaderText(oc).length + 2));
+    const cell = head.getCell(c);
+    cell.fill = outputFill;
+    cell.note = oc.name === 'runtime' || oc.name === 'cost' ? `${oc.description}. Planning estimate: see the "about" sheet.` : oc.description;
+    if (oc.name === 'notes') col.alignment = { wrapText: true, vertical: 'top' };
+  });
+  ws.autoFilter = { from: { row: 1, column: 1 }, to: { row: 1, column: nIn + OUTPUT_COLUMNS.length } };
+
+  const about = wb.addWorksheet('about');
+  about.getColumn(1).width = 24;
+  about.getColumn(2).width = 16;
+  about.getColumn(3).width = 90;
+  about.addRow(['Hush absorber plan']).font = { bold: true, size: 14 };
+  about.addRow(['model version', MODEL_VERSION]);
+  const note = about.addRow(['note', '', ESTIMATE_NOTE]);
+  note.getCell(3).alignment = { wrapText: true };
+  note.height = 48;
+  about.addRow([]);
+  about.addRow(['output column', 'unit', 'meaning']).font = { bold: true };
+  for (const oc of OUTPUT_COLUMNS) about.addRow([oc.name, oc.unit, oc.description]);
+  about.addRow([]);
+  about.addRow(['input field', 'bare number in', 'meaning']).font = { bold: true };
+  for (const f of INPUT_FIELDS) about.addRow([f.name, f.unit, f.description]);
+  await wb.xlsx.writeFile(file);
+}
