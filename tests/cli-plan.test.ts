@@ -1,0 +1,143 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'fs';
+import { tmpdir } from 'os';
+import { join } from 'path';
+import ExcelJS from 'exceljs';
+import { main } from '../src/cli/main';
+import type { CommandIO } from '../src/cli/io';
+import { OUTPUT_NAMES, planHeaderText } from '../src/plan';
+import { parseCsv } from '../src/plan/csv';
+
+const dir = mkdtempSync(join(tmpdir(), 'hush-plan-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+const demo = join(__dirname, '..', 'assets', 'demo-project.csv');
+
+async function run(argv: string[], isTTY = false) {
+  const out: string[] = [];
+  const err: string[] = [];
+  const io: CommandIO = { out: (t) => out.push(t), err: (t) => err.push(t), isTTY };
+  const code = await main(argv, io);
+  return { code, out: out.join('\n'), err: err.join('\n') };
+}
+
+describe('hush cost', () => {
+  it('--json keys and the hand count of a 10³ cube with 2 layers', async () => {
+    const r = await run(['cost', '--cells', '10,10,10', '--layers', '2', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    for (const k of ['cells_total', 'cells_absorber', 'psi_total', 'overhead_percent']) expect(j).toHaveProperty(k);
+    // Hand count (tests/cost.test.ts): 14³ cells, 1744 in the absorber, 9408 ψ.
+    expect(j.cells_total).toBe(2744);
+    expect(j.cells_absorber).toBe(1744);
+    expect(j.psi_total).toBe(9408);
+    expect(j.overhead_percent).toBe(174.4);
+    expect(j).not.toHaveProperty('steps');
+  });
+
+  it('steps with --cell, --courant and --duration; faces limit the absorber', async () => {
+    const r = await run(['cost', '--cells', '100,50', '--layers', '8', '--faces', 'x-,x+', '--cell', '20 nm', '--courant', '0.5', '--duration', '1 ps', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.cells_total).toBe(5800); // 116 × 50
+    // T/Δt = 1e-12·c/(0.5·20e-9) = 29979.2458 → 29980 (derived).
+    expect(j.steps).toBe(29980);
+  });
+
+  it('bad arguments exit with 2', async () => {
+    expect((await run(['cost', '--layers', '2'])).code).toBe(2);
+    expect((await run(['cost', '--cells', '10', '--layers', '2', '--cell', '1e-9'])).code).toBe(2);
+    expect((await run(['cost', '--cells', '10,10', '--layers', '2', '--faces', 'z-'])).code).toBe(2);
+    const r = await run(['cost', '--cells', 'ten', '--layers', '2']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--cells must be 1 to 3 whole numbers/);
+  });
+});
+
+describe('hush plan', () => {
+  it('plans the demo into an .xlsx that exceljs opens, one plan per row, inputs unchanged', async () => {
+    const out = join(dir, 'demo-plan.xlsx');
+    const r = await run(['plan', demo, '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/8 planned, 0 failed/);
+    expect(r.out).toMatch(/planning estimates/);
+    const source = parseCsv(readFileSync(demo, 'utf8'));
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(out);
+    const ws = wb.getWorksheet('plan')!;
+    expect(ws.rowCount).toBe(source.length);
+    const header = (ws.getRow(1).values as unknown[]).slice(1);
+    expect(header).toEqual([...source[0], ...planHeaderText()]);
+    const layersCol = source[0].length + 1 + OUTPUT_NAMES.indexOf('layers');
+    for (let r0 = 2; r0 <= source.length; r0++) {
+      const row = ws.getRow(r0);
+      for (let c = 0; c < source[0].length; c++) {
+        const v = row.getCell(c + 1).value;
+        expect(v === null ? '' : v).toBe(source[r0 - 1][c]); // text exactly as typed
+      }
+      expect(typeof row.getCell(layersCol).value).toBe('number');
+    }
+    expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 });
+    const about = wb.getWorksheet('about')!;
+    const text = JSON.stringify(about.getSheetValues());
+    expect(text).toMatch(/planning estimates/);
+    expect(text).toMatch(/convergence check/);
+  });
+
+  it('writes CSV with the inputs exactly as typed and outputs in added columns', async () => {
+    const out = join(dir, 'demo-plan.csv');
+    expect((await run(['plan', demo, '--out', out])).code).toBe(0);
+    const source = parseCsv(readFileSync(demo, 'utf8'));
+    const written = parseCsv(readFileSync(out, 'utf8'));
+    expect(written.length).toBe(source.length);
+    written.forEach((row, i) => expect(row.slice(0, source[0].length)).toEqual(source[i]));
+    // Planning the written plan again gives the same file (old output columns are replaced).
+    const again = join(dir, 'again.csv');
+    expect((await run(['plan', out, '--out', again])).code).toBe(0);
+    expect(readFileSync(again, 'utf8')).toBe(readFileSync(out, 'utf8'));
+  });
+
+  it('a bad row gets its error in notes, the others still plan, exit code 1', async () => {
+    const file = join(dir, 'mixed.csv');
+    writeFileSync(
+      file,
+      'study,band_short,cell,cells_x,dimensions,intensity_error\r\ngood,1550 nm,50 nm,100,1,1%\r\nbad,5 kg,50 nm,100,1,1%\r\nalso good,1310,40,80,1,0.5%\r\n',
+    );
+    const out = join(dir, 'mixed.json');
+    const r = await run(['plan', file, '--out', out]);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/row 3: band_short must be a length or a frequency \(got 5 kg\)/);
+    const j = JSON.parse(readFileSync(out, 'utf8'));
+    expect(j.rows.map((x: { failed: boolean }) => x.failed)).toEqual([false, true, false]);
+    expect(j.rows[1].outputs.notes).toBe('error: band_short must be a length or a frequency (got 5 kg)');
+    expect(typeof j.rows[2].outputs.layers).toBe('number');
+    expect(j.rows[1].inputs.band_short).toBe('5 kg');
+  });
+
+  it('bad arguments or an unreadable file exit with 2', async () => {
+    expect((await run(['plan'])).code).toBe(2);
+    expect((await run(['plan', join(dir, 'missing.csv')])).code).toBe(2);
+    expect((await run(['plan', demo, '--out', join(dir, 'plan.txt')])).code).toBe(2);
+    expect((await run(['plan', join(dir, 'table.ods')])).code).toBe(2);
+    const broken = join(dir, 'broken.csv');
+    writeFileSync(broken, 'study,band_short\r\n"unclosed,1550\r\n');
+    const r = await run(['plan', broken]);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/cannot read .*quoted field is not closed/);
+  });
+
+  it('reads an .xlsx project table; progress bar only on a terminal', async () => {
+    const xin = join(dir, 'project.xlsx');
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('studies');
+    ws.addRow(['study', 'dimensions', 'band_short', 'cell', 'cells_x', 'cells_y', 'intensity_error', 'passes', 'throughput']);
+    ws.addRow(['sheet study', 2, '1550 nm', 40, 120, 80, 0.01, 3, 1e8]);
+    await wb.xlsx.writeFile(xin);
+    const quiet = await run(['plan', xin, '--json']);
+    expect(quiet.code).toBe(0);
+    expect(quiet.err).toBe('');
+    const j = JSON.parse(quiet.out);
+    expect(j[0].outputs.steps).toBeGreaterThan(0);
+    const tty = await run(['plan', xin], true);
+    expect(tty.err).toMatch(/\[#+\] 1\/1/);
+  });
+});
