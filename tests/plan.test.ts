@@ -120,6 +120,14 @@ describe('planRow: budget → design → cost', () => {
     expect(w).toMatch(/grazing incidence: at 70°/);
   });
 
+  it('stated per-cell constants can be adjusted per row', () => {
+    const base = planRow(ring).cost;
+    const adj = planRow({ ...ring, fields_per_cell: 12, material_per_cell: 0 }).cost;
+    // Memory = cells × (fields + material) × 4 bytes + ψ × 4 bytes (physics.md §5).
+    expect(base.memory.totalBytes).toBe(base.domain.cellsTotal * 9 * 4 + base.domain.psiTotal * 4);
+    expect(adj.memory.totalBytes).toBe(base.domain.cellsTotal * 12 * 4 + base.domain.psiTotal * 4);
+  });
+
   it('bad input names the field', () => {
     expect(() => planRow({ ...ring, band_short: '5 kg' })).toThrow('band_short must be a length or a frequency (got 5 kg)');
     expect(() => planRow({ ...ring, band_short: '' })).toThrow(/band_short is required/);

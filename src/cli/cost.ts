@@ -4,7 +4,7 @@ import { numberOption, parseArgs, requiredNumber, stringOption, UsageError } fro
 import { fmt, type CommandIO } from './io';
 
 export const costUsage =
-  'hush cost --cells NX[,NY[,NZ]] --layers N [--faces x-,x+,y-,y+,z-,z+ (absorbing faces; default all)] [--gap CELLS=0] [--precision single|double] [--cell SIZE --courant C --duration T] [--throughput UPDATES_PER_S] [--price PER_NODE_HOUR] [--json]';
+  'hush cost --cells NX[,NY[,NZ]] --layers N [--faces x-,x+,y-,y+,z-,z+ (absorbing faces; default all)] [--gap CELLS=0] [--precision single|double] [--cell SIZE --courant C --duration T] [--throughput UPDATES_PER_S] [--price PER_NODE_HOUR] [--fields-per-cell F] [--material-per-cell M] [--absorber-factor A=1.5] [--json]';
 
 function parseCells(text: string | undefined): number[] {
   if (text === undefined) throw new UsageError('option --cells is required (e.g. --cells 200,200,100)');
@@ -30,7 +30,7 @@ function parseFaceList(text: string | undefined, dims: number): FaceKind[] {
 /** `hush cost`: cells, ψ, memory and (with a cell, Courant number and duration) steps of one domain. */
 export function costCommand(argv: string[], io: CommandIO): number {
   const args = parseArgs(argv, {
-    cells: {}, layers: {}, faces: {}, gap: {}, precision: {}, cell: {}, courant: {}, duration: {}, throughput: {}, price: {}, json: { flag: true },
+    cells: {}, layers: {}, faces: {}, gap: {}, precision: {}, cell: {}, courant: {}, duration: {}, throughput: {}, price: {}, 'fields-per-cell': {}, 'material-per-cell': {}, 'absorber-factor': {}, json: { flag: true },
   });
   if (args.positional.length) throw new UsageError(`unexpected argument ${JSON.stringify(args.positional[0])}`);
   const interior = parseCells(stringOption(args, 'cells'));
@@ -46,6 +46,9 @@ export function costCommand(argv: string[], io: CommandIO): number {
   const r = runCost({
     domain: { dimensions: dims, interior, layers: requiredNumber(args, 'layers'), faces, gap: numberOption(args, 'gap', 0) },
     precision,
+    fieldsPerCell: numberOption(args, 'fields-per-cell'),
+    materialPerCell: numberOption(args, 'material-per-cell'),
+    absorberFactor: numberOption(args, 'absorber-factor'),
     time: timed ? { cellMetres: parseLength("cell", cellText as string, "m"), courant: courant as number, duration: parseTime("duration", durationText as string, "s") } : undefined,
     throughput: numberOption(args, 'throughput'),
     pricePerHour: numberOption(args, 'price'),

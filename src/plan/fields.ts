@@ -42,6 +42,8 @@
  * | kappa_max        | κ_max of the absorber                                          | 1                                |
  * | alpha_max        | CFS shift α_max in S/m                                         | 0                                |
  * | absorber_factor  | cost of an absorber cell update relative to an interior one    | 1.5                              |
+ * | fields_per_cell  | field values stored per cell                                   | 6 (3-D), 3 (2-D), 2 (1-D)        |
+ * | material_per_cell| material values stored per cell                                | 3 (3-D), 1 (2-D, 1-D)            |
  *
  * A `remark` column (free text) and any other column are kept in the output
  * unchanged and never read by the planner.
@@ -95,6 +97,18 @@ export const INPUT_FIELDS: readonly InputField[] = [
   { name: 'kappa_max', unit: '', description: 'kappa max' },
   { name: 'alpha_max', unit: 'S/m', description: 'CFS alpha max' },
   { name: 'absorber_factor', unit: '', description: 'absorber cell update cost / interior' },
+  { name: 'fields_per_cell', unit: '', description: 'field values stored per cell' },
+  { name: 'material_per_cell', unit: '', description: 'material values stored per cell' },
+];
+
+/** The per-cell constants of the cost model (physics/cost.ts), stated wherever costs are shown. */
+export const COST_CONSTANTS: readonly { name: string; value: string; field: string }[] = [
+  { name: 'field values per cell', value: '6 in 3-D, 3 in 2-D (one polarisation), 2 in 1-D', field: 'fields_per_cell' },
+  { name: 'material values per cell', value: 'one coefficient per E component: 3 in 3-D, 1 in 2-D and 1-D', field: 'material_per_cell' },
+  { name: 'CPML ψ per cell', value: '4 per stretched axis in 3-D (4 face, 8 edge, 12 corner), 2 in 2-D and 1-D', field: '' },
+  { name: 'bytes per value', value: '4 single, 8 double', field: 'precision' },
+  { name: 'absorber update factor', value: '1.5 interior updates per absorber cell (memory traffic 23/15)', field: 'absorber_factor' },
+  { name: 'halo exchange', value: '4 values per cut cell per step in 3-D, 2 in 2-D and 1-D; 2 messages per neighbour', field: 'bandwidth, latency' },
 ];
 
 export const INPUT_NAMES: readonly string[] = INPUT_FIELDS.map((f) => f.name);

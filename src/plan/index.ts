@@ -80,6 +80,8 @@ export interface PlanInputs {
   kappaMax: number;
   alphaMax: number;
   absorberFactor: number;
+  fieldsPerCell: number | null;
+  materialPerCell: number | null;
 }
 
 export interface PlanGrid {
@@ -246,10 +248,13 @@ export function planInputs(row: ProjectRow): PlanInputs {
   const alphaMax = optional(row, 'alpha_max', parseNumber) ?? 0;
   if (!(alphaMax >= 0)) throw new HushInputError('alpha_max', `alpha_max must be at least 0 S/m (got ${alphaMax})`);
   const absorberFactor = optional(row, 'absorber_factor', parseNumber) ?? 1.5;
+  const fieldsPerCell = optional(row, 'fields_per_cell', parseNumber);
+  const materialPerCell = optional(row, 'material_per_cell', parseNumber);
   return {
     study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells,
     angleMaxDeg, intensityError, coupling, facesSeen, phase, share, duration, passes, q, ringTarget, ringFrequency,
     throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, absorberFactor,
+    fieldsPerCell, materialPerCell,
   };
 }
 
@@ -301,6 +306,8 @@ export function planFromInputs(inputs: PlanInputs): Plan {
   const cost = runCost({
     domain: { dimensions: i.dimensions, interior: i.interiorCells, layers: design.layers, faces: i.faces, gap: i.gapCells },
     precision: i.precision,
+    fieldsPerCell: i.fieldsPerCell ?? undefined,
+    materialPerCell: i.materialPerCell ?? undefined,
     time: hasRun
       ? {
           cellMetres: i.cell,

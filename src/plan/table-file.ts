@@ -10,7 +10,7 @@ import ExcelJS from 'exceljs';
 import { MODEL_VERSION } from '../physics/constants';
 import { HushInputError } from '../physics/errors';
 import { parseCsv, writeCsv } from './csv';
-import { INPUT_FIELDS, OUTPUT_COLUMNS, OUTPUT_NAMES, headerName, outputHeaderText } from './fields';
+import { COST_CONSTANTS, INPUT_FIELDS, OUTPUT_COLUMNS, OUTPUT_NAMES, headerName, outputHeaderText } from './fields';
 import type { PlanCell } from './index';
 import type { FieldValue } from './units';
 
@@ -153,6 +153,9 @@ export async function writeTable(file: string, header: readonly FieldValue[], ro
   const note = about.addRow(['note', '', ESTIMATE_NOTE]);
   note.getCell(3).alignment = { wrapText: true };
   note.height = 48;
+  about.addRow([]);
+  about.addRow(['cost constant', 'input field', 'value (adjust with the input field)']).font = { bold: true };
+  for (const c of COST_CONSTANTS) about.addRow([c.name, c.field, c.value]);
   about.addRow([]);
   about.addRow(['output column', 'unit', 'meaning']).font = { bold: true };
   for (const oc of OUTPUT_COLUMNS) about.addRow([oc.name, oc.unit, oc.description]);
