@@ -9,7 +9,7 @@ import { OfficeWorkbook, type ExcelHost } from '../src/workbook/office';
 import { MemoryWorkbook } from '../src/workbook/memory';
 import { WorkbookError, cellAddress, columnLetters, type CellValue, type TableSchema } from '../src/workbook/types';
 
-const schema: TableSchema = { inputs: ['tolerance', 'ppw'], outputs: ['layers', 'cost', 'absent output'] };
+const schema: TableSchema = { inputs: ['name', 'tolerance', 'ppw'], required: ['tolerance', 'ppw'], outputs: ['layers', 'cost', 'absent output'] };
 
 type Grid = CellValue[][];
 
@@ -158,7 +158,7 @@ describe('Office.js workbook', () => {
     expect(err).toBeInstanceOf(WorkbookError);
     expect(err.message).toBe(
       'Sheet1!A2 is not in a project table: the header row of the block of cells around Sheet1!A2 (Sheet1!A1:B2) lacks tolerance, ppw. ' +
-        'Select a cell in a study row of an Excel table, or of a block whose first row names the inputs (tolerance, ppw).',
+        'Select a cell in a study row of an Excel table, or of a block whose first row names the inputs (at least tolerance, ppw).',
     );
   });
 

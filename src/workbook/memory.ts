@@ -6,6 +6,7 @@
 import {
   WorkbookError,
   checkOutputFields,
+  columnOf,
   missingInputs,
   normaliseHeader,
   type CellValue,
@@ -91,8 +92,7 @@ export class MemoryWorkbook implements Workbook {
   }
 
   private columnOf(field: string): number {
-    const key = normaliseHeader(field);
-    return this.header.findIndex((h) => normaliseHeader(h) === key);
+    return columnOf(this.header, field, this.schema);
   }
 }
 

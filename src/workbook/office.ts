@@ -15,8 +15,9 @@ import {
   WorkbookError,
   cellAddress,
   checkOutputFields,
+  columnOf,
   missingInputs,
-  normaliseHeader,
+  normaliser,
   type CellValue,
   type RowValues,
   type SelectedRow,
@@ -78,7 +79,7 @@ export class OfficeWorkbook implements Workbook {
         const what = inTable ? `the Excel table around ${selection.address}` : `the block of cells around ${selection.address} (${block.address})`;
         throw new WorkbookError(
           `${selection.address} is not in a project table: the header row of ${what} lacks ${missing.join(', ')}. ` +
-            `Select a cell in a study row of an Excel table, or of a block whose first row names the inputs (${this.schema.inputs.join(', ')}).`,
+            `Select a cell in a study row of an Excel table, or of a block whose first row names the inputs (at least ${this.schema.required.join(', ')}).`,
         );
       }
       const r = selection.rowIndex - block.rowIndex;
@@ -110,7 +111,8 @@ export class OfficeWorkbook implements Workbook {
       throw new WorkbookError('this row was not read from Excel; read the selection again');
     }
     checkOutputFields(outputs, this.schema);
-    const inputKeys = new Set(this.schema.inputs.map(normaliseHeader));
+    const norm = normaliser(this.schema);
+    const inputKeys = new Set(this.schema.inputs.map(norm));
     return this.excel.run(async (context) => {
       const sheet = context.workbook.worksheets.getItem(h.sheet);
       const width = h.header.length;
@@ -125,14 +127,14 @@ export class OfficeWorkbook implements Workbook {
       }
       const current = (rowNow.values[0] ?? []).map(cellText);
       for (let c = 0; c < width; c++) {
-        if (inputKeys.has(normaliseHeader(names[c])) && current[c] !== h.values[c]) {
+        if (inputKeys.has(norm(names[c])) && current[c] !== h.values[c]) {
           throw new WorkbookError(`input "${names[c]}" of this row changed since it was read; read the selection again before applying`);
         }
       }
       const writes: Array<[number, CellValue]> = [];
       const missing: string[] = [];
       for (const [field, value] of Object.entries(outputs)) {
-        const c = names.findIndex((n) => normaliseHeader(n) === normaliseHeader(field));
+        const c = columnOf(names, field, this.schema);
         if (c < 0) missing.push(field);
         else writes.push([c, value]);
       }

@@ -17,10 +17,14 @@ export type RowValues = Record<string, CellValue>;
 
 /** Which fields the pane reads and which it may write. */
 export interface TableSchema {
-  /** Header names that must all be present for a block to count as a project table. */
+  /** Every input name: never written, and checked for changes before a write. */
   inputs: readonly string[];
+  /** Input names that must all be in the header for a block to count as a project table. */
+  required: readonly string[];
   /** Header names the pane may write; every other column is never touched. */
   outputs: readonly string[];
+  /** How header text is compared (e.g. dropping a unit in brackets); default trim and lower case. */
+  normalise?: (text: unknown) => string;
 }
 
 /** The selected study row, with enough to write it back and to say where it is. */
@@ -68,15 +72,27 @@ export class WorkbookError extends Error {
   }
 }
 
-/** The input names missing from a header, in schema order. */
+/** The required input names missing from a header, in schema order. */
 export function missingInputs(header: readonly string[], schema: TableSchema): string[] {
-  const have = new Set(header.map(normaliseHeader));
-  return schema.inputs.filter((f) => !have.has(normaliseHeader(f)));
+  const norm = normaliser(schema);
+  const have = new Set(header.map(norm));
+  return schema.required.filter((f) => !have.has(norm(f)));
 }
 
-/** Header cells compare without surrounding spaces and case. */
+/** Default header comparison: without surrounding spaces and case. */
 export function normaliseHeader(text: unknown): string {
   return String(text ?? '').trim().toLowerCase();
+}
+
+export function normaliser(schema: TableSchema): (text: unknown) => string {
+  return schema.normalise ?? normaliseHeader;
+}
+
+/** Index of the column named `field` in `header`, or −1. */
+export function columnOf(header: readonly string[], field: string, schema: TableSchema): number {
+  const norm = normaliser(schema);
+  const key = norm(field);
+  return header.findIndex((h) => norm(h) === key);
 }
 
 /**
@@ -84,9 +100,11 @@ export function normaliseHeader(text: unknown): string {
  * `WorkbookError` naming the first one that is not (the pane never writes inputs).
  */
 export function checkOutputFields(outputs: RowValues, schema: TableSchema): void {
-  const allowed = new Set(schema.outputs.map(normaliseHeader));
+  const norm = normaliser(schema);
+  const allowed = new Set(schema.outputs.map(norm));
+  const inputs = new Set(schema.inputs.map(norm));
   for (const k of Object.keys(outputs)) {
-    if (!allowed.has(normaliseHeader(k))) {
+    if (!allowed.has(norm(k)) || inputs.has(norm(k))) {
       throw new WorkbookError(`"${k}" is not an output column: the pane writes only ${schema.outputs.join(', ')}`);
     }
   }

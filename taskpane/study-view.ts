@@ -1,0 +1,36 @@
+/** The study panel: inputs as read (with units), the budget and the warnings. */
+import type { Plan } from './plan-adapter';
+import { inputUnit, isInputField } from './plan-adapter';
+import type { RowValues } from '../src/workbook/types';
+import { byId, el } from './dom';
+import { cellText, sig } from './format';
+
+export function renderStudy(plan: Plan, values: RowValues): void {
+  const i = plan.inputs;
+  const g = plan.grid;
+  const budget = byId('budget');
+  budget.textContent = '';
+  const dl = el('dl', { class: 'budget' });
+  const pair = (k: string, v: string) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  const faces = i.facesSeen === 1 ? 'one absorbing face' : `${i.facesSeen} absorbing faces (${i.phase === 'worst' ? 'amplitudes add' : 'random phases'})`;
+  pair('Tolerated error', `${sig(i.intensityError * 100)} % in intensity at the monitor`);
+  pair('Echo path', `coupling ${sig(i.coupling)}, ${faces}${i.share < 1 ? `, ${sig(i.share * 100)} % of the budget` : ''}`);
+  pair('Required |r|', `${sig(plan.requiredReflection)} per face (amplitude)`);
+  pair('Band', `${sig(g.ppwShort)} to ${sig(g.ppwLong)} cells per wavelength in the background (n = ${sig(i.index)})`);
+  pair('Angles', i.dimensions === 1 ? 'normal incidence (1-D)' : `0° to ${sig(i.angleMaxDeg)}°`);
+  pair('Grid', `${i.dimensions}-D, Courant number ${sig(i.courant)} (limit ${sig(g.courantLimit)})`);
+  budget.appendChild(dl);
+
+  const ul = byId('warnings');
+  ul.textContent = '';
+  for (const w of plan.warnings) ul.appendChild(el('li', {}, w));
+
+  const table = byId('inputs');
+  table.textContent = '';
+  for (const [k, v] of Object.entries(values)) {
+    const text = cellText(v);
+    if (text.trim() === '' || !isInputField(k)) continue;
+    const unit = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(text.trim()) ? inputUnit(k) : '';
+    table.appendChild(el('tr', {}, el('td', {}, k), el('td', {}, unit ? `${text} ${unit}` : text)));
+  }
+}
