@@ -78,7 +78,8 @@ export function logRange(values: number[], tight = false): [number, number] {
     lo = Math.min(lo, mid / Math.sqrt(10));
     hi = Math.max(hi, mid * Math.sqrt(10));
   }
-  return [Math.pow(10, Math.floor(Math.log10(lo) + 1e-9)), Math.pow(10, Math.ceil(Math.log10(hi) - 1e-9))];
+  // Number('1e-4') is exact where Math.pow(10, -4) is not.
+  return [Number(`1e${Math.floor(Math.log10(lo) + 1e-9)}`), Number(`1e${Math.ceil(Math.log10(hi) - 1e-9)}`)];
 }
 
 function linRange(values: number[]): [number, number] {

@@ -7,7 +7,7 @@ export function sig(x: number, digits = 3): string {
   const a = Math.abs(x);
   if (a < 1e-3 || a >= 1e6) {
     const [m, e] = x.toExponential(digits - 1).split('e');
-    return `${m}e${Number(e)}`;
+    return `${Number(m)}e${Number(e)}`;
   }
   return String(Number(x.toPrecision(digits)));
 }

@@ -193,7 +193,7 @@ function optionCell(o: OptionPlan): HTMLElement {
 /** What the cost axis shows: the price when the row has one, else the runtime, else the cell count. */
 function costMeasure(plan: Plan): { label: string; value: (p: Plan) => number | null } {
   if (plan.cost.runtime && plan.cost.runtime.cost !== null) {
-    return { label: 'cost (price units, estimate)', value: (p) => p.cost.runtime?.cost ?? null };
+    return { label: 'cost (estimate)', value: (p) => p.cost.runtime?.cost ?? null };
   }
   if (plan.cost.runtime) return { label: 'runtime (h, estimate)', value: (p) => (p.cost.runtime ? p.cost.runtime.totalSeconds / 3600 : null) };
   return { label: 'cells (total)', value: (p) => p.cost.domain.cellsTotal };

@@ -204,3 +204,21 @@ describe('addresses', () => {
     expect(cellAddress("Bob's plan", 0, 0)).toBe("'Bob''s plan'!A1");
   });
 });
+
+describe('Office.js workbook with the plan schema', () => {
+  it('matches header names as the plan does (units in brackets, case) and writes only outputs', async () => {
+    const { TABLE_SCHEMA } = await import('../taskpane/plan-adapter');
+    const grid: Grid = [
+      ['study', 'band_short', 'Cell', 'intensity_error', 'layers [cells]', 'runtime [h]'],
+      ['a', '1550 nm', '20 nm', '1%', '', ''],
+    ];
+    const fx = { grid, selection: { row: 1, column: 0 }, block: { row: 0, column: 0, rows: 2, columns: 6 } };
+    const { host } = mockExcel(fx);
+    const wb = new OfficeWorkbook(TABLE_SCHEMA, host);
+    const row = await wb.readSelectedRow();
+    const report = await wb.writeOutputs(row, { layers: 6, runtime: 1.5 });
+    expect(report.cells).toEqual(['Sheet1!E2', 'Sheet1!F2']);
+    expect(fx.grid[1]).toEqual(['a', '1550 nm', '20 nm', '1%', 6, 1.5]);
+    await expect(wb.writeOutputs(row, { cell: '10 nm' })).rejects.toThrow(/"cell" is not an output column/);
+  });
+});

@@ -1,0 +1,213 @@
+/**
+ * The task pane's pure parts in Node: embedded demo, page security policy,
+ * options from the plan API, curves, chart helpers, formatting, the choice of
+ * verification runs. The browser behaviour is in tests/browser-taskpane.test.ts.
+ */
+import { describe, expect, it } from 'vitest';
+import { createHash } from 'crypto';
+import * as fs from 'fs';
+import * as path from 'path';
+import { designOptions, reflection, ETA0 } from '../src/physics';
+import { parseCsv } from '../src/plan/csv';
+import { OUTPUT_NAMES, planRow, planToRow, rowFromTable } from '../src/plan';
+import { DEMO_PROJECT_CSV } from '../taskpane/demo-table';
+import { CFS_RELEVANT_PPW, TABLE_SCHEMA, alphaChoices, optionPlans, outputValues, studyPlan, suggestedAlphaMax } from '../taskpane/plan-adapter';
+import { alignSeries, linearTicks, logRange } from '../taskpane/charts';
+import { angleAxisEnd, ppwAxis, reflectionVsAngle, reflectionVsPpw } from '../taskpane/curves';
+import { hours, money, percent, sig } from '../taskpane/format';
+import { luminance } from '../taskpane/theme';
+import { largestRelativeDifference } from '../taskpane/verify-protocol';
+import { PANE_BUDGET_1D, PANE_BUDGET_2D, chooseRuns, measuredPpw, widenedBand } from '../taskpane/verify-plan';
+import { MemoryWorkbook } from '../src/workbook/memory';
+
+const ROOT = path.resolve(__dirname, '..');
+const csv = fs.readFileSync(path.join(ROOT, 'assets', 'demo-project.csv'), 'utf8');
+const table = parseCsv(csv);
+const values = (k: number) => Object.fromEntries(table[0].map((h, c) => [h, table[k + 1][c] ?? '']));
+
+describe('embedded demo project', () => {
+  it('is a verbatim copy of assets/demo-project.csv (regenerate: node taskpane/embed-demo.js)', () => {
+    expect(DEMO_PROJECT_CSV).toBe(csv);
+  });
+
+  it('is a project table for the in-page workbook', () => {
+    const wb = new MemoryWorkbook(table[0], table.slice(1), TABLE_SCHEMA);
+    expect(wb.rows.length).toBe(table.length - 1);
+  });
+});
+
+describe('page security policy', () => {
+  it("allows exactly the page's inline Office.js loader by its hash", () => {
+    const html = fs.readFileSync(path.join(ROOT, 'taskpane', 'taskpane.html'), 'utf8');
+    const scripts = [...html.matchAll(/<script>([\s\S]*?)<\/script>/g)].map((m) => m[1]);
+    expect(scripts.length).toBe(1);
+    // CSP Level 2: 'sha256-<base64 of the SHA-256 of the script text>'.
+    const hash = createHash('sha256').update(scripts[0]).digest('base64');
+    expect(html).toContain(`'sha256-${hash}'`);
+    expect(scripts[0]).toContain('preview');
+  });
+});
+
+describe('options from the plan API', () => {
+  it("recommends the study's own plan, and each option is the plan of its order and α", () => {
+    for (const k of [0, 4]) {
+      const study = studyPlan(values(k));
+      const reference = planRow(rowFromTable(table[0], table[k + 1]));
+      expect(study).toEqual(reference);
+      const opts = optionPlans(study);
+      const rec = opts.filter((o) => o.recommended);
+      expect(rec.length).toBe(1);
+      expect(rec[0].plan).toBe(study);
+      // Independent computation: the core's designOptions over the same spec, one α at a time.
+      for (const alphaMax of alphaChoices(study)) {
+        const i = study.inputs;
+        const core = designOptions({
+          target: study.requiredReflection,
+          ppwMin: study.grid.ppwShort,
+          ppwMax: study.grid.ppwLong,
+          angleMaxDeg: i.angleMaxDeg,
+          courant: i.courant,
+          dimensions: i.dimensions,
+          index: i.index,
+          orders: i.orders,
+          kappaMax: i.kappaMax,
+          alphaMaxNorm: alphaMax * ETA0 * i.cell * i.index,
+        });
+        for (const d of core) {
+          const o = opts.find((x) => x.alphaMax === alphaMax && x.order === d.order)!;
+          expect(o.plan!.design.layers).toBe(d.layers);
+          expect(o.plan!.design.worstAmplitude).toBeCloseTo(d.worstAmplitude, 15);
+        }
+      }
+    }
+  });
+
+  it('offers a CFS α only when the band reaches far enough in cells', () => {
+    const tidewater = studyPlan(values(0)); // 52–56 cells per wavelength, α = 0 in the row
+    const jetty = studyPlan(values(4)); // 36 cells per wavelength
+    expect(tidewater.grid.ppwLong).toBeGreaterThanOrEqual(CFS_RELEVANT_PPW);
+    expect(alphaChoices(tidewater)).toEqual([0, suggestedAlphaMax(tidewater)]);
+    expect(alphaChoices(jetty)).toEqual([0]);
+    // derived: α_norm = α·η₀·Δ·n = π/ppw_long, i.e. α/ω = ½ at the long end.
+    expect(suggestedAlphaMax(tidewater) * ETA0 * tidewater.inputs.cell * tidewater.inputs.index).toBeCloseTo(Math.PI / tidewater.grid.ppwLong, 12);
+    expect(optionPlans(tidewater).length).toBe(6);
+  });
+
+  it('writes every output column, blanks where the plan has no value', () => {
+    const plan = studyPlan(values(6)); // 1-D study without price: no cost
+    const out = outputValues(plan);
+    expect(Object.keys(out)).toEqual([...OUTPUT_NAMES]);
+    const row = planToRow(plan);
+    OUTPUT_NAMES.forEach((n, k) => expect(out[n]).toBe(row[k] ?? ''));
+    expect(out.cost).toBe('');
+  });
+});
+
+describe('curves', () => {
+  const design = { layers: 10, order: 3 };
+  const grid = { courant: 0.5, dimensions: 2, index: 1 };
+  it('are the core reflection at each point', () => {
+    const a = reflectionVsAngle(design, grid, 20, 85);
+    expect(a.x.length).toBe(86);
+    const r40 = reflection(design, { ppw: 20, courant: 0.5, dimensions: 2, angleDeg: 40 });
+    expect(a.discrete[40]).toBe(r40.amplitude);
+    expect(a.continuous[40]).toBe(r40.continuous);
+    const p = reflectionVsPpw(design, grid, [10, 20], 0);
+    expect(p.discrete[1]).toBe(reflection(design, { ppw: 20, courant: 0.5, dimensions: 2 }).amplitude);
+  });
+
+  it('span the angles beyond the study and the band', () => {
+    expect(angleAxisEnd(40)).toBe(85);
+    expect(angleAxisEnd(84)).toBe(89);
+    const ax = ppwAxis(20, 80, 5);
+    expect(ax[0]).toBe(20);
+    expect(ax[4]).toBeCloseTo(80, 12);
+    const single = ppwAxis(36, 36, 5);
+    expect(single[0]).toBeLessThan(36);
+    expect(single[4]).toBeGreaterThan(36);
+  });
+});
+
+describe('chart helpers', () => {
+  it('align series on the union of their x values', () => {
+    const d = alignSeries([
+      { x: [1, 3], y: [10, 30] },
+      { x: [2, 3], y: [20, null] },
+    ]);
+    expect(d.x).toEqual([1, 2, 3]);
+    expect(d.ys).toEqual([
+      [10, null, 30],
+      [null, 20, null],
+    ]);
+  });
+
+  it('choose log ranges and tick labels', () => {
+    expect(logRange([2e-4, 3e-2])).toEqual([1e-4, 1e-1]);
+    const [lo, hi] = logRange([40, 44], true);
+    expect(lo).toBeCloseTo(40 / 1.05, 12);
+    expect(hi).toBeCloseTo(44 * 1.05, 12);
+    expect(linearTicks([0.0555, 0.056, 0.0565])).toEqual(['0.0555', '0.0560', '0.0565']);
+  });
+});
+
+describe('formatting', () => {
+  it('rounds for display', () => {
+    expect(sig(0.004987562)).toBe('0.00499');
+    expect(sig(2.5e-5)).toBe('2.5e-5');
+    expect(percent(7.6923)).toBe('7.7 %');
+    expect(hours(0.2)).toBe('12 min');
+    expect(hours(100)).toBe('4.17 d');
+    expect(money(1234.5)).toBe('1,234.50');
+    expect(money(0.00555)).toBe('0.00555');
+  });
+});
+
+describe('theme', () => {
+  it('reads luminance by the WCAG 2 definition', () => {
+    expect(luminance('#ffffff')).toBe(1);
+    expect(luminance('#000')).toBe(0);
+    // WCAG 2 relative luminance of #808080: ((0.502+0.055)/1.055)^2.4 = 0.2158605.
+    expect(luminance('#808080')).toBeCloseTo(0.2158605, 6);
+    expect(luminance('dark')).toBeNull();
+  });
+});
+
+describe('verification runs', () => {
+  const grid = { courant: 0.5, dimensions: 3, index: 1.44, ppwMin: 30, ppwMax: 40, angleMaxDeg: 10 };
+  it('measures inside the band, evenly in frequency', () => {
+    const p = measuredPpw(grid);
+    expect(p.length).toBe(5);
+    expect(p[0]).toBe(30);
+    expect(p[4]).toBe(40);
+    // derived: the middle point is at the mean frequency, 1/((1/30 + 1/40)/2) = 240/7.
+    expect(p[2]).toBeCloseTo(240 / 7, 12);
+    const [lo, hi] = widenedBand(grid, 1.5);
+    expect(lo).toBeLessThan(30);
+    expect(hi).toBeGreaterThan(40);
+  });
+
+  it('picks 1-D and 2-D runs within the pane budget for the demo waveguide', () => {
+    const plan = studyPlan(values(4));
+    const d = plan.design;
+    const choice = chooseRuns(
+      { layers: d.layers, order: d.order, strength: d.strength, kappaMax: d.kappaMax, alphaMaxNorm: d.alphaMaxNorm, alphaOrder: d.alphaOrder },
+      { courant: plan.inputs.courant, dimensions: 3, index: plan.inputs.index, ppwMin: plan.grid.ppwShort, ppwMax: plan.grid.ppwLong, angleMaxDeg: plan.inputs.angleMaxDeg },
+    );
+    expect('run' in choice.oneD && choice.oneD.cellUpdates <= PANE_BUDGET_1D).toBe(true);
+    expect('run' in choice.twoD && choice.twoD.cellUpdates <= PANE_BUDGET_2D).toBe(true);
+  });
+
+  it('skips the 2-D run for a 1-D study and says why', () => {
+    const c = chooseRuns({ layers: 5, order: 3 }, { ...grid, dimensions: 1, courant: 0.9, index: 1, angleMaxDeg: 0 });
+    expect(c.twoD).toEqual({ skipped: 'a 1-D study has no oblique incidence' });
+  });
+
+  it('states the largest relative difference', () => {
+    const pts = [
+      { run: '1-D' as const, ppw: 20, angleDeg: 0, measured: 1.01e-3, predicted: 1e-3 },
+      { run: '2-D' as const, ppw: 20, angleDeg: 30, measured: 1.96e-3, predicted: 2e-3 },
+    ];
+    // derived: max(0.01, 0.02) = 0.02.
+    expect(largestRelativeDifference(pts)).toBeCloseTo(0.02, 12);
+  });
+});
