@@ -55,14 +55,19 @@ interface FunctionMeta {
   options?: Record<string, boolean>;
 }
 
-/** The expected worksheet signature of each function: [name, type, optional] per parameter, and the result. */
-const budgetTail: [string, string, boolean][] = [
+/**
+ * The expected worksheet signature of each function: [name, type, optional] per
+ * parameter (a fourth element 'matrix' for a range parameter), and the result
+ * (type '' when it is any).
+ */
+type ParamSpec = [string, string, boolean] | [string, string, boolean, 'matrix'];
+const budgetTail: ParamSpec[] = [
   ['coupling', 'number', true],
   ['faces', 'number', true],
   ['phase', 'string', true],
   ['share', 'number', true],
 ];
-const reflectionParams: [string, string, boolean][] = [
+const reflectionParams: ParamSpec[] = [
   ['layers', 'number', false],
   ['order', 'number', false],
   ['ppw', 'number', false],
@@ -75,7 +80,23 @@ const reflectionParams: [string, string, boolean][] = [
   ['index', 'number', true],
   ['dimensions', 'number', true],
 ];
-const expected: Record<string, { params: [string, string, boolean][]; result: string; matrix: boolean }> = {
+const designParams: ParamSpec[] = [
+  ['target_amplitude', 'number', false],
+  ['ppw_min', 'number', false],
+  ['ppw_max', 'number', true],
+  ['angle_max_deg', 'any', true],
+  ['orders', 'any', true, 'matrix'],
+  ['courant', 'number', true],
+  ['index', 'number', true],
+  ['dimensions', 'number', true],
+  ['kappa_max', 'number', true],
+  ['alpha_max_norm', 'number', true],
+];
+const tableParams: ParamSpec[] = [
+  ['header', 'any', false, 'matrix'],
+  ['row', 'any', false, 'matrix'],
+];
+const expected: Record<string, { params: ParamSpec[]; result: string; matrix: boolean }> = {
   NEEDED_REFLECTION: { params: [['intensity_error', 'number', false], ...budgetTail], result: 'number', matrix: false },
   ERROR_FROM_REFLECTION: { params: [['amplitude', 'number', false], ...budgetTail], result: 'number', matrix: false },
   REFLECTION: { params: reflectionParams, result: 'number', matrix: false },
@@ -91,6 +112,16 @@ const expected: Record<string, { params: [string, string, boolean][]; result: st
     matrix: true,
   },
   MODEL_VERSION: { params: [], result: 'string', matrix: false },
+  LAYERS: { params: designParams, result: 'number', matrix: false },
+  DESIGN: { params: designParams, result: 'number', matrix: true },
+  DESIGN_HEADER: { params: [], result: 'string', matrix: true },
+  PLAN: { params: tableParams, result: '', matrix: true },
+  PLAN_HEADER: { params: [], result: 'string', matrix: true },
+  CELLS: { params: tableParams, result: 'number', matrix: false },
+  MEMORY: { params: tableParams, result: 'number', matrix: false },
+  STEPS: { params: tableParams, result: 'number', matrix: false },
+  RUNTIME: { params: tableParams, result: 'number', matrix: false },
+  COST: { params: tableParams, result: 'number', matrix: false },
 };
 
 function metadata(dir = out): FunctionMeta[] {
@@ -104,12 +135,15 @@ describe('generated functions.json', () => {
     for (const f of fns) {
       const e = expected[f.id];
       expect(f.name).toBe(f.id);
-      expect(f.parameters.map((p) => [p.name, p.type, Boolean(p.optional)]), f.id).toEqual(e.params);
+      expect(
+        f.parameters.map((p) => (p.dimensionality === 'matrix' ? [p.name, p.type, Boolean(p.optional), 'matrix'] : [p.name, p.type, Boolean(p.optional)])),
+        f.id,
+      ).toEqual(e.params);
       for (const p of f.parameters) {
-        expect(p.dimensionality ?? 'scalar', `${f.id}.${p.name}`).toBe('scalar');
+        expect(p.dimensionality ?? 'scalar', `${f.id}.${p.name}`).toMatch(/^(scalar|matrix)$/);
         expect(p.description, `${f.id}.${p.name} is described`).toBeTruthy();
       }
-      expect(f.result.type, f.id).toBe(e.result);
+      expect(f.result.type ?? '', f.id).toBe(e.result);
       expect(f.result.dimensionality ?? 'scalar', f.id).toBe(e.matrix ? 'matrix' : 'scalar');
       // Pure functions of their arguments: nothing volatile, streaming or cancelable.
       expect(f.options ?? {}, f.id).toEqual({});

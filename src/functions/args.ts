@@ -17,6 +17,7 @@
  * Every refusal is a HushInputError of kind 'value' naming the argument.
  */
 import { HushInputError, quote } from '../physics';
+import { parseAngle } from '../plan/units';
 
 /** True for the ways Excel says "no value": null, undefined, "" and blank text. */
 export function isBlank(value: unknown): boolean {
@@ -93,4 +94,42 @@ export function numberList(field: string, value: unknown, fallback?: number[]): 
     throw new HushInputError(field, `${field} needs at least one number`, 'value');
   }
   return cells.map((c) => toNumber(field, c));
+}
+
+/**
+ * A list of numbers from a range (cells read row by row, blanks skipped) or
+ * from text such as "2,3,4" or "2 3 4" (in one cell or several); `fallback`
+ * when nothing at all is given.
+ */
+export function numberListOrText(field: string, value: unknown, fallback?: number[]): number[] {
+  const cells: unknown[] = [];
+  const walk = (v: unknown): void => {
+    if (Array.isArray(v)) v.forEach(walk);
+    else if (typeof v === 'string') cells.push(...v.split(/[\s,;]+/).filter(Boolean));
+    else if (!isBlank(v)) cells.push(v);
+  };
+  walk(value);
+  if (cells.length === 0) {
+    if (fallback) return fallback.slice();
+    throw new HushInputError(field, `${field} needs at least one number`, 'value');
+  }
+  return cells.map((c) => {
+    try {
+      return toNumber(field, c);
+    } catch {
+      throw new HushInputError(field, `${field} must be numbers, as a range or as text such as "2,3,4" (got ${describe(c)})`, 'value');
+    }
+  });
+}
+
+/**
+ * An optional angle in degrees: a number (degrees), numeric text, or text with
+ * an angle unit ("30 deg", "0.5 rad"), read by the plan API's unit parser;
+ * `fallback` when omitted or blank.
+ */
+export function optionalAngle(field: string, value: unknown, fallback?: number): number | undefined {
+  const v = singleValue(field, value);
+  if (isBlank(v)) return fallback;
+  if (typeof v === 'string' && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v.trim())) return parseAngle(field, v);
+  return toNumber(field, v);
 }

@@ -11,8 +11,14 @@
  * the exact result; tests/functions-examples.test.ts runs each one.
  *
  * Parameter names are snake_case because Excel shows them as written.
+ *
+ * The heavy functions (HUSH.LAYERS, HUSH.DESIGN, HUSH.PLAN and the figures
+ * read from a plan) return a Promise: their work runs in a scheduler that
+ * yields to the runtime between slices (scheduler.ts), and calls with the
+ * same inputs share one computation (plans.ts).
  */
 import {
+  HushInputError,
   MODEL_VERSION,
   intensityErrorFromAmplitude,
   reflection,
@@ -21,11 +27,16 @@ import {
   rippleFromReflection,
   type AbsorberDesign,
   type BudgetOptions,
+  type DesignResult,
+  type DesignSpec,
   type PhaseModel,
   type WaveSpec,
 } from '../physics';
-import { optionalChoice, optionalNumber, requiredNumber } from './args';
+import { OUTPUT_NAMES, planHeaderText, planToRow, type Plan } from '../plan';
+import { numberListOrText, optionalAngle, optionalChoice, optionalNumber, requiredNumber } from './args';
+import { DESIGN_COLUMNS } from './columns';
 import { worksheet } from './errors';
+import { asWorksheet, designOf, planOf } from './plans';
 import { APP_VERSION } from './version';
 
 const PHASES: readonly PhaseModel[] = ['worst', 'random'];
@@ -247,4 +258,232 @@ export function rippleSource(peak_to_peak: number, period_hz: number, group_inde
  */
 export function modelVersion(): string {
   return `Hush ${APP_VERSION}, model ${MODEL_VERSION}`;
+}
+
+/** Any number a spilled cell would show must be finite: a plan that overflows is refused, never shown as a number. */
+function finiteCell(name: string, x: number | string): number | string {
+  if (typeof x === 'number' && !Number.isFinite(x)) {
+    throw new HushInputError(name, `${name} is out of range (${x}): the inputs are beyond what the model can count; check sizes, cell and run length`, 'number');
+  }
+  return x;
+}
+
+function designSpec(
+  target_amplitude: unknown,
+  ppw_min: unknown,
+  ppw_max: unknown,
+  angle_max_deg: unknown,
+  orders: unknown,
+  courant: unknown,
+  index: unknown,
+  dimensions: unknown,
+  kappa_max: unknown,
+  alpha_max_norm: unknown,
+): DesignSpec {
+  return {
+    target: requiredNumber('target reflection', target_amplitude),
+    ppwMin: requiredNumber('cells per wavelength (short end)', ppw_min),
+    ppwMax: optionalNumber('cells per wavelength (long end)', ppw_max),
+    angleMaxDeg: optionalAngle('largest angle', angle_max_deg),
+    // The core's default orders, stated here because a blank range arrives as cells, not as "omitted".
+    orders: numberListOrText('grading orders', orders, [2, 3, 4]),
+    courant: optionalNumber('Courant number', courant),
+    index: optionalNumber('background index', index),
+    dimensions: optionalNumber('dimensions', dimensions),
+    kappaMax: optionalNumber('kappa max', kappa_max),
+    alphaMaxNorm: optionalNumber('alpha max (normalised)', alpha_max_norm),
+  };
+}
+
+/**
+ * Thinnest absorber (layer count N) whose worst exact discrete reflection over the band and angles meets the target on this grid; the best of the allowed grading orders, strength optimised.
+ * Example: =HUSH.LAYERS(0.001, 20) → 4
+ * Example: =HUSH.LAYERS(0.0001, 15, 30, 45, "3,4") → 8
+ * Example: =HUSH.LAYERS(0.001, 20, , "0.5 rad") → 4
+ * @customfunction LAYERS
+ * @param target_amplitude Required amplitude reflection |r| per face, 0 < |r| < 1 (from HUSH.NEEDED_REFLECTION).
+ * @param ppw_min Cells per wavelength in the background medium at the short-wavelength end of the band.
+ * @param [ppw_max] Cells per wavelength at the long-wavelength end, at least ppw_min. Default ppw_min (one frequency).
+ * @param [angle_max_deg] Largest angle of incidence, 0 to 85 degrees; a number (degrees) or text with a unit ("0.5 rad"). Default 0.
+ * @param [orders] Allowed grading orders, 1 to 10: a range of cells or text such as "2,3,4". Default 2, 3, 4.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
+ * @param [index] Background refractive index n at the absorber, 1 to 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
+ * @param [kappa_max] Fixed κ at the back of the absorber, 1 to 100. Default 1.
+ * @param [alpha_max_norm] Fixed CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
+ * @returns Layer count N (cells).
+ */
+export function layers(
+  target_amplitude: number,
+  ppw_min: number,
+  ppw_max?: number,
+  angle_max_deg?: any,
+  orders?: any[][],
+  courant?: number,
+  index?: number,
+  dimensions?: number,
+  kappa_max?: number,
+  alpha_max_norm?: number,
+): Promise<number> {
+  return asWorksheet(
+    () => designOf(designSpec(target_amplitude, ppw_min, ppw_max, angle_max_deg, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    (d: DesignResult) => d.layers,
+  );
+}
+
+/**
+ * The thinnest absorber design as one spilled row: layers, grading order, strength σ_max/σ_opt, κ_max, α_max_norm, α order, worst |r| achieved (dense check), cells per wavelength and angle where it occurs, continuous-theory |r|. Headers: HUSH.DESIGN_HEADER().
+ * Example: =HUSH.DESIGN(0.001, 20) → {4, 2, 0.937623545758167, 1, 0, 1, 0.000608146489079253, 20, 0, 0.0024767930196855}
+ * @customfunction DESIGN
+ * @param target_amplitude Required amplitude reflection |r| per face, 0 < |r| < 1 (from HUSH.NEEDED_REFLECTION).
+ * @param ppw_min Cells per wavelength in the background medium at the short-wavelength end of the band.
+ * @param [ppw_max] Cells per wavelength at the long-wavelength end, at least ppw_min. Default ppw_min (one frequency).
+ * @param [angle_max_deg] Largest angle of incidence, 0 to 85 degrees; a number (degrees) or text with a unit ("0.5 rad"). Default 0.
+ * @param [orders] Allowed grading orders, 1 to 10: a range of cells or text such as "2,3,4". Default 2, 3, 4.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
+ * @param [index] Background refractive index n at the absorber, 1 to 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
+ * @param [kappa_max] Fixed κ at the back of the absorber, 1 to 100. Default 1.
+ * @param [alpha_max_norm] Fixed CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
+ * @returns One row in the order of HUSH.DESIGN_HEADER().
+ */
+export function design(
+  target_amplitude: number,
+  ppw_min: number,
+  ppw_max?: number,
+  angle_max_deg?: any,
+  orders?: any[][],
+  courant?: number,
+  index?: number,
+  dimensions?: number,
+  kappa_max?: number,
+  alpha_max_norm?: number,
+): Promise<number[][]> {
+  return asWorksheet(
+    () => designOf(designSpec(target_amplitude, ppw_min, ppw_max, angle_max_deg, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    (d: DesignResult) => [DESIGN_COLUMNS.map((c) => finiteCell(c.header, c.value(d)) as number)],
+  );
+}
+
+/**
+ * Header row for HUSH.DESIGN, with units in brackets.
+ * Example: =HUSH.DESIGN_HEADER() → {"layers [cells]", "order", "strength [σmax/σopt]", "kappa_max", "alpha_max_norm [α·η₀·Δ·n]", "alpha_order", "worst_reflection [|r|]", "worst_ppw [cells/λ]", "worst_angle [deg]", "continuous_reflection [|r|]"}
+ * @customfunction DESIGN_HEADER
+ * @returns One row of column names.
+ */
+export function designHeader(): string[][] {
+  return [DESIGN_COLUMNS.map((c) => c.header)];
+}
+
+/** A plan's output row for a worksheet: numbers and text only (an empty value is ""), every number finite. */
+function planCells(plan: Plan): (number | string)[] {
+  return planToRow(plan).map((v, k) => finiteCell(OUTPUT_NAMES[k], v === null || v === undefined ? '' : v));
+}
+
+/**
+ * Plans one study of a project table: required reflection, absorber design, grid, cells, memory, steps, runtime and cost, spilled as one row (headers: HUSH.PLAN_HEADER()). Runtime and cost are planning estimates from the row's throughput and price. Copy down a table: =HUSH.PLAN($A$1:$AM$1, A2:AM2).
+ * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, 3, 4, 0.609862538969584, 0.00136383568212683, 0.0535392533275822, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
+ * @customfunction PLAN
+ * @param header The project table's header row: field names such as band_short, cell, intensity_error (units in brackets and other columns are ignored), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, as many cells as the header, e.g. A2:AM2. Numbers take each field's default unit; text may carry units ("1550 nm", "3 ps", "$2/h").
+ * @returns One row in the order of HUSH.PLAN_HEADER(); an empty cell where the plan has no value.
+ */
+export function plan(header: any[][], row: any[][]): Promise<any[][]> {
+  return asWorksheet(
+    () => planOf(header, row),
+    (p: Plan) => [planCells(p)],
+  );
+}
+
+/**
+ * Header row for HUSH.PLAN, with units in brackets.
+ * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "continuous_reflection [|r|]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
+ * @customfunction PLAN_HEADER
+ * @returns One row of column names.
+ */
+export function planHeader(): string[][] {
+  return [planHeaderText()];
+}
+
+/** One figure of a row's plan (the same cached plan HUSH.PLAN spills), with what to add when the row does not give it. */
+function planFigure(header: unknown, row: unknown, column: string, missing: (p: Plan) => string): Promise<number> {
+  const k = OUTPUT_NAMES.indexOf(column);
+  return asWorksheet(
+    () => planOf(header, row),
+    (p: Plan) => {
+      const v = planToRow(p)[k];
+      if (typeof v !== 'number') throw new HushInputError(column, missing(p), 'value');
+      return finiteCell(column, v) as number;
+    },
+  );
+}
+
+const NO_RUN_LENGTH = 'give duration, passes or q in the row';
+
+/**
+ * Cells of the whole grid of a study (structure, gap and absorber), from the same plan as HUSH.PLAN.
+ * Example: =HUSH.CELLS({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 28302272
+ * @customfunction CELLS
+ * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, e.g. A2:AM2.
+ * @returns Number of cells.
+ */
+export function cells(header: any[][], row: any[][]): Promise<number> {
+  return planFigure(header, row, 'cells_total', () => 'no cell count');
+}
+
+/**
+ * Memory of a study's fields, material coefficients and CPML ψ values in GB (10⁹ bytes), a planning estimate from stated per-cell counts.
+ * Example: =HUSH.MEMORY({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 1.047339264
+ * @customfunction MEMORY
+ * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, e.g. A2:AM2.
+ * @returns Memory in GB.
+ */
+export function memory(header: any[][], row: any[][]): Promise<number> {
+  return planFigure(header, row, 'memory', () => 'no memory figure');
+}
+
+/**
+ * Time steps of a study's run (its duration, passes or ring-down of q over Δt = S·Δ/c).
+ * Example: =HUSH.STEPS({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 13577
+ * @customfunction STEPS
+ * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, e.g. A2:AM2.
+ * @returns Number of time steps.
+ */
+export function steps(header: any[][], row: any[][]): Promise<number> {
+  return planFigure(header, row, 'steps', () => `steps need a run length: ${NO_RUN_LENGTH}`);
+}
+
+/**
+ * Estimated wall time of a study's run in hours, from the row's throughput (a planning estimate, not a measurement).
+ * Example: =HUSH.RUNTIME({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.110027721374444
+ * @customfunction RUNTIME
+ * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, e.g. A2:AM2.
+ * @returns Runtime in hours.
+ */
+export function runtime(header: any[][], row: any[][]): Promise<number> {
+  return planFigure(header, row, 'runtime', (p) =>
+    p.cost.time ? 'runtime needs throughput (interior cell updates per second on one node) in the row' : `runtime needs a run length: ${NO_RUN_LENGTH}`,
+  );
+}
+
+/**
+ * Estimated cost of a study's run: runtime × nodes × price per node-hour, in the row's currency (a planning estimate).
+ * Example: =HUSH.COST({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.275069303436111
+ * @customfunction COST
+ * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
+ * @param row This study's row of the same table, e.g. A2:AM2.
+ * @returns Cost in the currency of price_per_hour.
+ */
+export function cost(header: any[][], row: any[][]): Promise<number> {
+  return planFigure(header, row, 'cost', (p) =>
+    !p.cost.time
+      ? `cost needs a run length: ${NO_RUN_LENGTH}`
+      : !p.cost.runtime
+        ? 'cost needs throughput (interior cell updates per second on one node) in the row'
+        : 'cost needs price_per_hour (price of one node-hour, e.g. $2/h) in the row',
+  );
 }
