@@ -263,7 +263,7 @@ export function modelVersion(): string {
 /** Any number a spilled cell would show must be finite: a plan that overflows is refused, never shown as a number. */
 function finiteCell(name: string, x: number | string): number | string {
   if (typeof x === 'number' && !Number.isFinite(x)) {
-    throw new HushInputError(name, `${name} is out of range (${x}): the inputs are beyond what the model can count; check sizes, cell and run length`, 'number');
+    throw new HushInputError(name, `${name} is out of range (${x}): an input is beyond what the model can count; check throughput, sizes, cell and run length`, 'number');
   }
   return x;
 }
