@@ -12,3 +12,4 @@ export * from './design';
 export * from './domain';
 export * from './ringdown';
 export * from './cost';
+export * from './fdtd';

@@ -1,0 +1,5 @@
+export * from './line';
+export * from './tmz';
+export * from './dtft';
+export * from './pulse';
+export * from './measure';

@@ -1,0 +1,541 @@
+/**
+ * Time-domain measurement of the amplitude reflection of a CPML design
+ * (physics.md §3, "Measuring reflection"): two runs with identical grids near
+ * the source, one ending in the absorber, one lossless and long enough that
+ * nothing returns within the record (both start from the same far-left
+ * termination). The echo at a monitor between source and absorber is
+ * E_abs − E_ref; r(ω) = DTFT(echo)/DTFT(incident) at chosen ωΔt, with the
+ * propagation phase e^{−2j·k̃_x·D} over the monitor-to-interface distance D
+ * removed using the discrete k̃_x. Both records hold the whole response, so the
+ * ratio is the exact discrete transfer function and can be set beside the
+ * exact model `reflectionAtWavenumber`.
+ *
+ * 1-D: a CPML line at normal incidence. 2-D: a TMz grid periodic in y with Ny
+ * cells, source profile cos(k_t·j), k_t = 2πM/Ny, so every frequency meets the
+ * boundary at its own angle θ(ω) = atan2(k_t, k̃_x(ω)).
+ *
+ * The async routines advance in chunks and yield a macrotask between chunks so
+ * a Web Worker can receive a cancel message; they throw MeasurementCancelled
+ * when `signal.aborted` is set. The synchronous `createMeasurement…` objects
+ * expose the same run step by step.
+ */
+import { cpmlCoefficients } from '../cpml';
+import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from '../grading';
+import { DEFAULT_COURANT, checkCourant } from '../courant';
+import { checkPpw, discreteAngle, discreteWavenumber } from '../dispersion';
+import { reflectionAtWavenumber } from '../reflection';
+import { HushInputError } from '../errors';
+import { inRange, wholeInRange } from '../validate';
+import { CpmlLine } from './line';
+import { TmzGrid2D } from './tmz';
+import { dtftAt } from './dtft';
+import { fillPulse, planPulse, type PulsePlan } from './pulse';
+
+const DEG = Math.PI / 180;
+
+/** Thrown by the async measurements when their signal is aborted. */
+export class MeasurementCancelled extends Error {
+  constructor(message = 'reflection measurement cancelled') {
+    super(message);
+    this.name = 'MeasurementCancelled';
+  }
+}
+
+export function isMeasurementCancelled(e: unknown): e is MeasurementCancelled {
+  return e instanceof MeasurementCancelled;
+}
+
+/**
+ * Far-left termination shared by both runs. Its own reflection (≈ 2e-8 at 6
+ * cells per wavelength, ≈ 1e-9 at 20, from the exact model) only enters the
+ * measured r as a relative error of that size: the echo must reflect off it once
+ * more to come back to the monitor.
+ */
+export const FAR_LEFT_TERMINATION: AbsorberDesign = { layers: 48, order: 4 };
+/** Cells between the far-left termination and the source. */
+const LEFT_GAP = 10;
+/** Cells from the source to the monitor. */
+const SOURCE_TO_MONITOR = 5;
+/** Default cells from the monitor to the absorber interface. */
+const DEFAULT_MONITOR_DISTANCE = 10;
+/** Accepted miss of the requested angle at the band centre before a higher mode M is tried (each frequency reports its own angle). */
+const ANGLE_TOLERANCE_DEG = 1;
+/** Default number of measured frequencies. */
+const DEFAULT_FREQUENCIES = 9;
+/** Spectral level (relative to the peak) above which agreement is judged. */
+export const SPECTRUM_THRESHOLD = 1e-3;
+/** Largest run accepted, in cell updates (both runs together). */
+export const MAX_CELL_UPDATES = 4e9;
+/** Largest cells per wavelength accepted (longer waves need impractically long records). */
+const MAX_PPW = 400;
+/** Cell updates per chunk of the async routines (≈ 10–20 ms of work). */
+const DEFAULT_CHUNK = 2_000_000;
+
+export interface MeasureOptions1D {
+  /** Vacuum Courant number cΔt/Δ; default 0.99/√3. */
+  courant?: number;
+  /** Background index n ≥ 1; default 1. */
+  index?: number;
+  /** Cells per wavelength (in the medium) at the short-wavelength end of the band. */
+  ppwLow: number;
+  /** Cells per wavelength at the long-wavelength end. */
+  ppwHigh: number;
+  /** Number of evenly spaced frequencies (default 9), or explicit cells-per-wavelength values inside the band. */
+  frequencies?: number | readonly number[];
+  /** Cells from the monitor to the absorber interface; default 10. */
+  monitorDistance?: number;
+}
+
+export interface MeasureOptions2D extends MeasureOptions1D {
+  /** Angle of incidence at the band centre, 0 ≤ θ < 90 degrees. */
+  angleDeg: number;
+  /** Period Ny in cells; default chosen for the angle. */
+  transverseCells?: number;
+  /** Mode number M of the source profile cos(2πM·j/Ny); default chosen with Ny. */
+  transverseModes?: number;
+}
+
+export interface RunControl {
+  /** Called with increasing fractions of the work done, ending with 1. */
+  onProgress?: (fraction: number) => void;
+  /** Checked between chunks; when `aborted` is true the run throws MeasurementCancelled. */
+  signal?: { aborted: boolean };
+  /** Cell updates per chunk between yields; default 2e6. */
+  chunkCellUpdates?: number;
+}
+
+export interface MeasuredFrequency {
+  /** Cells per wavelength in the medium, 2π·S_m/(ωΔt). */
+  ppw: number;
+  omegaDt: number;
+  /** Direction of the discrete plane wave in the interior, degrees. */
+  angleDeg: number;
+  /** |r| from the time-domain runs. */
+  measuredAmplitude: number;
+  /** arg r from the time-domain runs, degrees, at the interface. */
+  measuredPhaseDeg: number;
+  /** |r| from the exact model (physics.md §3). */
+  predictedAmplitude: number;
+  predictedPhaseDeg: number;
+  /** | |r_meas| − |r_model| | / |r_model|. */
+  relativeDifference: number;
+  /** |DTFT(incident)| relative to its peak over the pulse's band. */
+  spectrumLevel: number;
+}
+
+export interface ReflectionMeasurement {
+  dimensions: 1 | 2;
+  courant: number;
+  courantMedium: number;
+  index: number;
+  /** Requested angle (2-D) or 0. */
+  angleDeg: number;
+  /** Period Ny and mode M (1 and 0 in 1-D); k_t = 2πM/Ny. */
+  transverseCells: number;
+  transverseModes: number;
+  transverseWavenumber: number;
+  monitorDistance: number;
+  pulse: PulsePlan;
+  /** Steps recorded. */
+  steps: number;
+  /** E nodes of the absorber run and of the reference run. */
+  absorberRunNodes: number;
+  referenceRunNodes: number;
+  cellUpdates: number;
+  frequencies: MeasuredFrequency[];
+  /** Largest relativeDifference among frequencies whose spectrumLevel ≥ 1e-3. */
+  maxRelativeDifference: number;
+  /** Largest |echo| over the last tenth of the record relative to the largest |echo|: near 0 when the record is complete. */
+  echoTailLevel: number;
+}
+
+/** A measurement that can be advanced step by step. */
+export interface MeasurementRun {
+  readonly totalSteps: number;
+  readonly stepsDone: number;
+  /** Cell updates per step, both runs together. */
+  readonly cellUpdatesPerStep: number;
+  /** Advances both runs by up to `steps` steps. */
+  advance(steps: number): void;
+  /** The result; throws if the run is not complete. */
+  result(): ReflectionMeasurement;
+}
+
+/** Phase steps for the measured frequencies. */
+function chooseFrequencies(spec: number | readonly number[] | undefined, ppwLow: number, ppwHigh: number, sm: number): number[] {
+  const wl = (2 * Math.PI * sm) / ppwHigh;
+  const wh = (2 * Math.PI * sm) / ppwLow;
+  if (spec === undefined || typeof spec === 'number') {
+    const count = wholeInRange('frequencies', spec ?? DEFAULT_FREQUENCIES, 1, 1000);
+    if (count === 1 || wl === wh) return [0.5 * (wl + wh)];
+    const out: number[] = [];
+    for (let k = 0; k < count; k++) out.push(wl + ((wh - wl) * k) / (count - 1));
+    return out;
+  }
+  if (!Array.isArray(spec) || spec.length === 0 || spec.length > 1000) {
+    throw new HushInputError('frequencies', 'frequencies must be a count or a list of 1 to 1000 cells-per-wavelength values', 'value');
+  }
+  return spec.map((p) => {
+    const v = inRange('frequencies (cells per wavelength)', p, ppwLow, ppwHigh);
+    return (2 * Math.PI * sm) / v;
+  });
+}
+
+interface CommonPlan {
+  design: ResolvedDesign;
+  courant: number;
+  courantMedium: number;
+  index: number;
+  omegas: number[];
+  monitorDistance: number;
+  ppwLow: number;
+  ppwHigh: number;
+}
+
+function checkCommon(design: AbsorberDesign, opts: MeasureOptions1D, dims: 1 | 2, angleDeg: number): CommonPlan {
+  const d = resolveDesign(design);
+  if (opts === null || typeof opts !== 'object') {
+    throw new HushInputError('options', 'options must be an object with at least ppwLow and ppwHigh', 'value');
+  }
+  const courant = checkCourant(opts.courant ?? DEFAULT_COURANT, dims);
+  const index = inRange('background index', opts.index ?? 1, 1, 100);
+  const sm = courant / index;
+  const ppwLow = checkPpw('cells per wavelength (low)', opts.ppwLow, sm, angleDeg);
+  const ppwHigh = inRange('cells per wavelength (high)', opts.ppwHigh, ppwLow, MAX_PPW);
+  const monitorDistance = wholeInRange('monitor distance', opts.monitorDistance ?? DEFAULT_MONITOR_DISTANCE, 1, 1000);
+  const omegas = chooseFrequencies(opts.frequencies, ppwLow, ppwHigh, sm);
+  return { design: d, courant, courantMedium: sm, index, omegas, monitorDistance, ppwLow, ppwHigh };
+}
+
+/**
+ * Group velocity along x in cells per step of the mode (ωΔt, k_t):
+ * dω/dk_x = S_m²·sin k̃_x / sin ωΔt (derived from the Yee dispersion relation,
+ * physics.md §4). 0 where the mode does not propagate.
+ */
+export function groupVelocityX(omegaDt: number, kt: number, courantMedium: number): number {
+  const st = Math.sin(omegaDt / 2) / courantMedium;
+  const sk = Math.sin(kt / 2);
+  const x = st * st - sk * sk;
+  if (!(x > 0 && x < 1)) return 0;
+  const kx = 2 * Math.asin(Math.sqrt(x));
+  return (courantMedium * courantMedium * Math.sin(kx)) / Math.sin(omegaDt);
+}
+
+/** Grazing (k̃_x = 0) and upper (k̃_x = π or ωΔt = π) cut-offs of the mode k_t. */
+function cutoffs(kt: number, sm: number): { low: number; high: number } {
+  const sk = Math.sin(kt / 2);
+  const low = kt === 0 ? 0 : 2 * Math.asin(Math.min(1, sm * Math.abs(sk)));
+  const top = sm * Math.sqrt(1 + sk * sk);
+  const high = top >= 1 ? Math.PI : 2 * Math.asin(top);
+  return { low, high };
+}
+
+interface Timing {
+  pulse: PulsePlan;
+  waveform: Float64Array;
+  steps: number;
+  referenceRight: number;
+}
+
+/** Pulse, record length and reference length for the geometry. */
+function planTiming(c: CommonPlan, kt: number): Timing {
+  const wl = Math.min(...c.omegas, (2 * Math.PI * c.courantMedium) / c.ppwHigh);
+  const wh = Math.max(...c.omegas, (2 * Math.PI * c.courantMedium) / c.ppwLow);
+  const cut = cutoffs(kt, c.courantMedium);
+  const pulse = planPulse(wl, wh, cut.low, cut.high);
+  // Slowest x group velocity among components above the SLOW_LEVEL of the spectrum.
+  let vMin = Infinity;
+  const lo = Math.max(pulse.centreOmegaDt - pulse.slowHalfWidth, cut.low);
+  const hi = Math.min(pulse.centreOmegaDt + pulse.slowHalfWidth, cut.high);
+  for (let k = 0; k <= 64; k++) {
+    const w = lo + ((hi - lo) * k) / 64;
+    const v = groupVelocityX(w, kt, c.courantMedium);
+    if (v > 0) vMin = Math.min(vMin, v);
+  }
+  if (!(vMin < Infinity)) vMin = groupVelocityX(pulse.centreOmegaDt, kt, c.courantMedium);
+  // Round trip from the source past the monitor into the absorber (slowed by up to κ_max) and back.
+  const path = SOURCE_TO_MONITOR + 2 * c.monitorDistance + 2 * c.design.layers * c.design.kappaMax;
+  const steps = pulse.length + Math.ceil((1.3 * path) / vMin) + Math.ceil(2 * pulse.width) + 64;
+  // Nothing travels faster than the medium speed (S_m cells per step) by more than a negligible precursor.
+  const referenceRight = Math.ceil(0.55 * steps * c.courantMedium) + SOURCE_TO_MONITOR + c.monitorDistance + 20;
+  return { pulse, waveform: fillPulse(pulse, new Float64Array(pulse.length)), steps, referenceRight };
+}
+
+interface Analysis {
+  kt: number;
+  angleDeg: number;
+  transverseCells: number;
+  transverseModes: number;
+}
+
+function analyse(
+  c: CommonPlan,
+  a: Analysis,
+  dims: 1 | 2,
+  t: Timing,
+  recAbs: Float64Array,
+  recRef: Float64Array,
+  nodesAbs: number,
+  nodesRef: number,
+): ReflectionMeasurement {
+  const T = t.steps;
+  const echo = new Float64Array(T);
+  let peakEcho = 0;
+  for (let n = 0; n < T; n++) {
+    echo[n] = recAbs[n] - recRef[n];
+    peakEcho = Math.max(peakEcho, Math.abs(echo[n]));
+  }
+  let tail = 0;
+  for (let n = Math.floor(0.9 * T); n < T; n++) tail = Math.max(tail, Math.abs(echo[n]));
+  const z = new Float64Array(2);
+  // Peak of the incident spectrum: a scan over the pulse's main lobe plus the measured frequencies.
+  let peak = 0;
+  const w0 = t.pulse.centreOmegaDt;
+  const spread = 3 / t.pulse.width;
+  const scanLow = Math.max(w0 - spread, 1e-6);
+  for (let k = 0; k <= 64; k++) {
+    dtftAt(recRef, T, scanLow + ((w0 + spread - scanLow) * k) / 64, z);
+    peak = Math.max(peak, Math.hypot(z[0], z[1]));
+  }
+  const sm = c.courantMedium;
+  const rows: MeasuredFrequency[] = [];
+  for (const w of c.omegas) {
+    dtftAt(recRef, T, w, z);
+    const iRe = z[0];
+    const iIm = z[1];
+    dtftAt(echo, T, w, z);
+    const eRe = z[0];
+    const eIm = z[1];
+    peak = Math.max(peak, Math.hypot(iRe, iIm));
+    const dd = iRe * iRe + iIm * iIm;
+    const qRe = (eRe * iRe + eIm * iIm) / dd;
+    const qIm = (eIm * iRe - eRe * iIm) / dd;
+    const { kx, angleDeg } = discreteAngle(w, a.kt, sm);
+    // Undo the round trip monitor → interface → monitor: multiply by e^{+2j·k̃_x·D}.
+    const ph = 2 * kx * c.monitorDistance;
+    const rRe = qRe * Math.cos(ph) - qIm * Math.sin(ph);
+    const rIm = qRe * Math.sin(ph) + qIm * Math.cos(ph);
+    const model = reflectionAtWavenumber(c.design, w, a.kt, sm);
+    const measured = Math.hypot(rRe, rIm);
+    rows.push({
+      ppw: (2 * Math.PI * sm) / w,
+      omegaDt: w,
+      angleDeg,
+      measuredAmplitude: measured,
+      measuredPhaseDeg: Math.atan2(rIm, rRe) / DEG,
+      predictedAmplitude: model.amplitude,
+      predictedPhaseDeg: Math.atan2(model.im, model.re) / DEG,
+      relativeDifference: Math.abs(measured - model.amplitude) / model.amplitude,
+      spectrumLevel: Math.hypot(iRe, iIm),
+    });
+  }
+  let worst = 0;
+  for (const r of rows) {
+    r.spectrumLevel /= peak;
+    if (r.spectrumLevel >= SPECTRUM_THRESHOLD) worst = Math.max(worst, r.relativeDifference);
+  }
+  return {
+    dimensions: dims,
+    courant: c.courant,
+    courantMedium: sm,
+    index: c.index,
+    angleDeg: a.angleDeg,
+    transverseCells: a.transverseCells,
+    transverseModes: a.transverseModes,
+    transverseWavenumber: a.kt,
+    monitorDistance: c.monitorDistance,
+    pulse: t.pulse,
+    steps: T,
+    absorberRunNodes: nodesAbs,
+    referenceRunNodes: nodesRef,
+    cellUpdates: T * (nodesAbs + nodesRef),
+    frequencies: rows,
+    maxRelativeDifference: worst,
+    echoTailLevel: peakEcho > 0 ? tail / peakEcho : 0,
+  };
+}
+
+function checkWork(steps: number, nodes: number): void {
+  const work = steps * nodes;
+  if (work > MAX_CELL_UPDATES) {
+    throw new HushInputError(
+      'band',
+      `this measurement would need ${work.toExponential(2)} cell updates (limit ${MAX_CELL_UPDATES.toExponential(0)}); use a wider band of fewer cells per wavelength, or a smaller angle`,
+    );
+  }
+}
+
+/** A 1-D measurement at normal incidence, ready to advance step by step. */
+export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions1D): MeasurementRun {
+  const c = checkCommon(design, opts, 1, 0);
+  const t = planTiming(c, 0);
+  const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
+  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
+  const abs = new CpmlLine({ cells: near, courantMedium: c.courantMedium, left, right });
+  const ref = new CpmlLine({ cells: LEFT_GAP + t.referenceRight, courantMedium: c.courantMedium, left });
+  checkWork(t.steps, abs.nodes + ref.nodes);
+  const source = abs.leftInterface + LEFT_GAP;
+  const probe = source + SOURCE_TO_MONITOR;
+  const recAbs = new Float64Array(t.steps);
+  const recRef = new Float64Array(t.steps);
+  let done = 0;
+  return {
+    totalSteps: t.steps,
+    get stepsDone() {
+      return done;
+    },
+    cellUpdatesPerStep: abs.nodes + ref.nodes,
+    advance(steps: number) {
+      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
+      abs.advance(k, done, t.waveform, source, recAbs, probe);
+      ref.advance(k, done, t.waveform, source, recRef, probe);
+      done += k;
+    },
+    result() {
+      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
+      return analyse(c, { kt: 0, angleDeg: 0, transverseCells: 1, transverseModes: 0 }, 1, t, recAbs, recRef, abs.nodes, ref.nodes);
+    },
+  };
+}
+
+/** Period Ny and mode M whose k_t = 2πM/Ny gives the requested angle at phase step ω₀Δt. */
+export function chooseTransverseMode(angleDeg: number, omegaDt: number, courantMedium: number): { cells: number; modes: number } {
+  if (angleDeg === 0) return { cells: 1, modes: 0 };
+  const ppw = (2 * Math.PI * courantMedium) / omegaDt;
+  const q = discreteWavenumber(ppw, courantMedium, angleDeg);
+  const kt = q * Math.sin(angleDeg * DEG);
+  let best = { cells: 0, modes: 0, err: Infinity };
+  for (let m = 1; m <= 8; m++) {
+    const ny = Math.max(2 * m + 1, Math.round((2 * Math.PI * m) / kt));
+    const ktm = (2 * Math.PI * m) / ny;
+    let err = Infinity;
+    try {
+      err = Math.abs(discreteAngle(omegaDt, ktm, courantMedium).angleDeg - angleDeg);
+    } catch {
+      continue;
+    }
+    if (err < best.err - 1e-12) best = { cells: ny, modes: m, err };
+    if (err <= ANGLE_TOLERANCE_DEG) break;
+  }
+  if (!(best.err < Infinity)) {
+    throw new HushInputError('angle', `no periodic grid carries a wave at ${angleDeg} degrees at this frequency`);
+  }
+  return { cells: best.cells, modes: best.modes };
+}
+
+/** A 2-D oblique-incidence measurement, ready to advance step by step. */
+export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions2D): MeasurementRun {
+  if (opts === null || typeof opts !== 'object') {
+    throw new HushInputError('options', 'options must be an object with at least angleDeg, ppwLow and ppwHigh', 'value');
+  }
+  const angleDeg = inRange('angle', opts.angleDeg, 0, 90, { hiOpen: true, unit: 'degrees' });
+  const c = checkCommon(design, opts, 2, angleDeg);
+  const w0 = 0.5 * ((2 * Math.PI * c.courantMedium) / c.ppwLow + (2 * Math.PI * c.courantMedium) / c.ppwHigh);
+  let mode = chooseTransverseMode(angleDeg, w0, c.courantMedium);
+  if (opts.transverseCells !== undefined || opts.transverseModes !== undefined) {
+    const cells = wholeInRange('transverse cells', opts.transverseCells ?? mode.cells, 1, 100_000);
+    const modes = wholeInRange('transverse modes', opts.transverseModes ?? mode.modes, 0, Math.floor(cells / 2));
+    mode = { cells, modes };
+  }
+  const ny = mode.cells;
+  const kt = (2 * Math.PI * mode.modes) / ny;
+  for (const w of c.omegas) {
+    try {
+      discreteAngle(w, kt, c.courantMedium);
+    } catch {
+      throw new HushInputError('band', `the wave of ${((2 * Math.PI * c.courantMedium) / w).toPrecision(4)} cells per wavelength is evanescent along x at this angle`);
+    }
+  }
+  const t = planTiming(c, kt);
+  const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
+  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
+  checkWork(t.steps, (2 * (left.layers + 1) + near + c.design.layers + LEFT_GAP + t.referenceRight) * ny);
+  const abs = new TmzGrid2D({ cells: near, transverseCells: ny, courantMedium: c.courantMedium, left, right });
+  const ref = new TmzGrid2D({ cells: LEFT_GAP + t.referenceRight, transverseCells: ny, courantMedium: c.courantMedium, left });
+  const source = abs.leftInterface + LEFT_GAP;
+  const probe = source + SOURCE_TO_MONITOR;
+  const profile = new Float64Array(ny);
+  const weights = new Float64Array(ny);
+  let norm = 0;
+  for (let j = 0; j < ny; j++) {
+    profile[j] = Math.cos(kt * j);
+    norm += profile[j] * profile[j];
+  }
+  for (let j = 0; j < ny; j++) weights[j] = profile[j] / norm;
+  const recAbs = new Float64Array(t.steps);
+  const recRef = new Float64Array(t.steps);
+  let done = 0;
+  return {
+    totalSteps: t.steps,
+    get stepsDone() {
+      return done;
+    },
+    cellUpdatesPerStep: abs.nodes + ref.nodes,
+    advance(steps: number) {
+      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
+      abs.advance(k, done, t.waveform, source, profile, recAbs, probe, weights);
+      ref.advance(k, done, t.waveform, source, profile, recRef, probe, weights);
+      done += k;
+    },
+    result() {
+      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
+      return analyse(c, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes }, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
+    },
+  };
+}
+
+/** Runs a prepared measurement to the end synchronously. */
+export function runToEnd(run: MeasurementRun): ReflectionMeasurement {
+  run.advance(run.totalSteps - run.stepsDone);
+  return run.result();
+}
+
+function macrotask(): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, 0));
+}
+
+/** Drives a prepared measurement in chunks, yielding between them. */
+export async function runInChunks(run: MeasurementRun, control: RunControl = {}): Promise<ReflectionMeasurement> {
+  const chunkWork = control.chunkCellUpdates === undefined ? DEFAULT_CHUNK : inRange('chunk size', control.chunkCellUpdates, 1, Infinity);
+  const chunk = Math.max(1, Math.floor(chunkWork / run.cellUpdatesPerStep));
+  const signal = control.signal;
+  const report = control.onProgress;
+  while (run.stepsDone < run.totalSteps) {
+    if (signal && signal.aborted) throw new MeasurementCancelled();
+    run.advance(chunk);
+    if (report && run.stepsDone < run.totalSteps) report(run.stepsDone / run.totalSteps);
+    await macrotask();
+  }
+  if (signal && signal.aborted) throw new MeasurementCancelled();
+  const result = run.result();
+  if (report) report(1);
+  return result;
+}
+
+/**
+ * Measures the reflection of `design` at normal incidence on a 1-D line.
+ * Example: measureReflection1D({ layers: 8, order: 3 }, { ppwLow: 10, ppwHigh: 40 })
+ * resolves to frequencies whose measuredAmplitude matches predictedAmplitude
+ * (see tests/verification.test.ts for the agreement seen).
+ */
+export async function measureReflection1D(design: AbsorberDesign, opts: MeasureOptions1D, control: RunControl = {}): Promise<ReflectionMeasurement> {
+  return runInChunks(createMeasurement1D(design, opts), control);
+}
+
+/** Measures the reflection of `design` at oblique incidence on a periodic 2-D TMz grid. */
+export async function measureReflection2D(design: AbsorberDesign, opts: MeasureOptions2D, control: RunControl = {}): Promise<ReflectionMeasurement> {
+  return runInChunks(createMeasurement2D(design, opts), control);
+}
+
+/** Synchronous 1-D measurement (blocks; prefer the async form in a UI). */
+export function measureReflection1DSync(design: AbsorberDesign, opts: MeasureOptions1D): ReflectionMeasurement {
+  return runToEnd(createMeasurement1D(design, opts));
+}
+
+/** Synchronous 2-D measurement (blocks; prefer the async form in a UI). */
+export function measureReflection2DSync(design: AbsorberDesign, opts: MeasureOptions2D): ReflectionMeasurement {
+  return runToEnd(createMeasurement2D(design, opts));
+}
+
