@@ -257,11 +257,11 @@ export function runCost(spec: CostSpec): CostResult {
   const nodes = wholeInRange('nodes', spec.nodes ?? 1, 1, MAX_NODES);
   const absorberFactor = inRange('absorber update factor', spec.absorberFactor ?? DEFAULT_ABSORBER_FACTOR, 1, 100);
   const throughput =
-    spec.throughput === undefined ? undefined : inRange('throughput', spec.throughput, 0, 1e16, { loOpen: true, unit: 'cell updates per second' });
+    spec.throughput === undefined ? undefined : inRange('throughput', spec.throughput, 1, 1e16, { unit: 'cell updates per second' });
   const price = spec.pricePerHour === undefined ? undefined : inRange('price per hour', spec.pricePerHour, 0, 1e7);
   const latency = inRange('latency', spec.latency ?? 0, 0, 1, { unit: 's' });
-  const bandwidth = spec.bandwidth === undefined ? undefined : inRange('bandwidth', spec.bandwidth, 0, 1e14, { loOpen: true, unit: 'bytes per second' });
-  const efficiencyIn = spec.efficiency === undefined ? undefined : inRange('parallel efficiency', spec.efficiency, 0, 1, { loOpen: true });
+  const bandwidth = spec.bandwidth === undefined ? undefined : inRange('bandwidth', spec.bandwidth, 1, 1e14, { unit: 'bytes per second' });
+  const efficiencyIn = spec.efficiency === undefined ? undefined : inRange('parallel efficiency', spec.efficiency, 0.01, 1);
 
   let parallel: ParallelResult;
   if (nodes === 1) {
