@@ -5,10 +5,14 @@
 import { cpus } from 'os';
 import { kernelBench } from './kernel-bench';
 import { designBench } from './design-bench';
+import { tmzBench } from './tmz-bench';
+import { planBench } from './plan-bench';
 
 const sections: [string, () => string[] | Promise<string[]>][] = [
   ['kernel', () => kernelBench(1)],
+  ['tmz', () => tmzBench()],
   ['design', () => designBench()],
+  ['plan', () => planBench()],
 ];
 
 async function main() {
