@@ -39,12 +39,30 @@ function cellText(v: ExcelJS.CellValue): FieldValue {
   return String(v);
 }
 
+/** Largest project table `hush plan` accepts, in study rows (a larger one is almost surely not a project table). */
+export const MAX_TABLE_ROWS = 100_000;
+/** Largest table file read, bytes. */
+export const MAX_TABLE_BYTES = 64 * 1024 * 1024;
+
+function checkRows(file: string, rows: number): void {
+  if (rows > MAX_TABLE_ROWS) {
+    throw new HushInputError('table', `${file} has ${rows} rows: a project table may have at most ${MAX_TABLE_ROWS} studies; split it`, 'value');
+  }
+}
+
 /** Reads the first worksheet of an .xlsx, or a CSV file; the first row is the header. */
 export async function readTable(file: string): Promise<Table> {
   const format = tableFormat(file);
+  if (format) {
+    const size = (await fs.stat(file)).size;
+    if (size > MAX_TABLE_BYTES) {
+      throw new HushInputError('table', `${file} is ${size} bytes: a project table file may be at most ${MAX_TABLE_BYTES} bytes`, 'value');
+    }
+  }
   if (format === 'csv') {
     const rows = parseCsv(await fs.readFile(file, 'utf8'));
     if (!rows.length) throw new HushInputError('table', `${file} is empty: a project table needs a header row`, 'value');
+    checkRows(file, rows.length - 1);
     return { header: rows[0], rows: rows.slice(1) };
   }
   if (format === 'xlsx') {
@@ -52,6 +70,7 @@ export async function readTable(file: string): Promise<Table> {
     await wb.xlsx.readFile(file);
     const ws = wb.worksheets[0];
     if (!ws || ws.rowCount === 0) throw new HushInputError('table', `${file} has no rows: a project table needs a header row`, 'value');
+    checkRows(file, ws.rowCount - 1);
     const width = ws.getRow(1).cellCount;
     const read = (r: number) => {
       const row = ws.getRow(r);
