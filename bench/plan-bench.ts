@@ -11,7 +11,7 @@ import { parseCsv, writeCsv } from '../src/plan/csv';
 
 /** 1,000 rows made from the demo rows, each with its tolerance scaled 0.3–3× so no two rows share a plan. */
 export function generatedTable(rows: number): string {
-  const demo = parseCsv(readFileSync(join(__dirname, '..', 'assets', 'demo-project.csv'), 'utf8'));
+  const demo = parseCsv(readFileSync(join(process.cwd(), 'assets', 'demo-project.csv'), 'utf8'));
   const header = demo[0];
   const body = demo.slice(1);
   const col = header.indexOf('intensity_error');
@@ -28,7 +28,7 @@ export function generatedTable(rows: number): string {
 }
 
 export function planBench(): string[] {
-  const entry = join(__dirname, '..', 'dist', 'node', 'cli', 'main.js');
+  const entry = join(process.cwd(), 'dist', 'node', 'cli', 'main.js');
   if (!existsSync(entry)) return ["hush plan, 1,000 rows: skipped, run 'npm run build' first"];
   const dir = mkdtempSync(join(tmpdir(), 'hush-bench-'));
   const table = join(dir, 'table.csv');
