@@ -9,7 +9,7 @@ import { compileC, runC } from './c';
 const CELLS = 2000;
 const NY = 64;
 const LAYERS = 10;
-const STEPS = 300;
+const STEPS = 600;
 
 function tsRate(): { rate: number; check: number } {
   const dt = (0.99 / Math.sqrt(2)) * 0.99;
@@ -24,11 +24,15 @@ function tsRate(): { rate: number; check: number } {
       for (let j = 0; j < NY; j++) grid.ez[src + j] += Math.sin(0.2 * t) * Math.exp(-((t / 20) ** 2)) * Math.cos((2 * Math.PI * j) / NY);
     }
   };
-  run(30); // warm-up (JIT)
-  grid.reset();
-  const t0 = performance.now();
-  run(STEPS);
-  const el = (performance.now() - t0) / 1000;
+  run(200); // warm-up: let the JIT settle before timing
+  // Best of three timed runs, as for the C baseline: throughput on a shared machine is noisy.
+  let el = Infinity;
+  for (let rep = 0; rep < 3; rep++) {
+    grid.reset();
+    const t0 = performance.now();
+    run(STEPS);
+    el = Math.min(el, (performance.now() - t0) / 1000);
+  }
   let sum = 0;
   for (let k = 0; k < grid.ez.length; k++) sum += grid.ez[k] * grid.ez[k];
   return { rate: (grid.nodes * STEPS) / el, check: Math.sqrt(sum) };
@@ -42,7 +46,13 @@ export function tmzBench(): string[] {
     lines.push('  C baseline skipped: no C compiler (cc) on this machine');
     return lines;
   }
-  const [rate, check] = runC(exe, [String(CELLS), String(NY), String(LAYERS), String(STEPS)]);
+  let rate = 0;
+  let check = 0;
+  for (let rep = 0; rep < 3; rep++) {
+    const [r, c] = runC(exe, [String(CELLS), String(NY), String(LAYERS), String(STEPS)]);
+    rate = Math.max(rate, r);
+    check = c;
+  }
   lines.push(`  C (cc -O2)            ${rate.toExponential(3)} cell updates/s (check ${check.toExponential(6)})`);
   lines.push(`  ratio TypeScript / C = ${(ts.rate / rate).toFixed(2)}  (goal ≥ 0.5)`);
   return lines;
