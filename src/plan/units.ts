@@ -36,6 +36,12 @@ function describe(v: FieldValue): string {
   return typeof v === 'string' ? v.trim() : String(v);
 }
 
+/** `x` when finite; a value typed as "1e400" or "1e308 km" overflows to ±Infinity and is refused with what was typed. */
+function finite(field: string, x: number, shown: FieldValue): number {
+  if (!Number.isFinite(x)) throw new HushInputError(field, `${field} is out of range (got ${JSON.stringify(describe(shown))})`, 'value');
+  return x;
+}
+
 /** A bare number, or null when the text carries a unit. Throws on booleans. */
 function bareNumber(field: string, v: FieldValue): number | null {
   if (typeof v === 'number') {
@@ -44,7 +50,7 @@ function bareNumber(field: string, v: FieldValue): number | null {
   }
   if (typeof v !== 'string') throw new HushInputError(field, `${field} must be a number or a quantity with a unit (got ${String(v)})`, 'value');
   const t = v.trim();
-  return BARE_NUMBER.test(t) ? Number(t) : null;
+  return BARE_NUMBER.test(t) ? finite(field, Number(t), v) : null;
 }
 
 const parsed = new Map<string, MathUnit | Error>();
@@ -63,7 +69,9 @@ function parseUnit(field: string, text: string, expected: string): MathUnit {
     parsed.set(t, u);
   }
   if (u instanceof Error) {
-    throw new HushInputError(field, `${field} must be ${expected} (got ${JSON.stringify(text.trim())}: ${u.message})`, 'value');
+    // mathjs quotes the text as typed; a line break in it would split the message.
+    const why = u.message.replace(/\r/g, '\\r').replace(/\n/g, '\\n');
+    throw new HushInputError(field, `${field} must be ${expected} (got ${JSON.stringify(text.trim())}: ${why})`, 'value');
   }
   return u;
 }
@@ -78,10 +86,10 @@ const reference = {
 
 function quantity(field: string, v: FieldValue, kind: keyof typeof reference, siUnit: string, defaultUnit: string, expected: string): number {
   const bare = bareNumber(field, v);
-  if (bare !== null) return canonical(math.unit(bare, defaultUnit).toNumber(siUnit));
+  if (bare !== null) return canonical(finite(field, math.unit(bare, defaultUnit).toNumber(siUnit), v));
   const u = parseUnit(field, v as string, expected);
   if (!u.equalBase(reference[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
-  return canonical(u.toNumber(siUnit));
+  return canonical(finite(field, u.toNumber(siUnit), v));
 }
 
 function positive(field: string, x: number, shown: FieldValue): number {
@@ -121,12 +129,12 @@ export function parseBandwidth(field: string, v: FieldValue): number {
 export function parseWavelength(field: string, v: FieldValue, defaultUnit = 'nm'): number {
   const expected = 'a length or a frequency';
   const bare = bareNumber(field, v);
-  if (bare !== null) return positive(field, canonical(math.unit(bare, defaultUnit).toNumber('m')), v);
+  if (bare !== null) return positive(field, canonical(finite(field, math.unit(bare, defaultUnit).toNumber('m'), v)), v);
   const u = parseUnit(field, v as string, expected);
-  if (u.equalBase(reference.length)) return positive(field, canonical(u.toNumber('m')), v);
+  if (u.equalBase(reference.length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
   if (u.equalBase(reference.frequency)) {
-    const f = positive(field, u.toNumber('Hz'), v);
-    return canonical(SPEED_OF_LIGHT / f);
+    const f = positive(field, finite(field, u.toNumber('Hz'), v), v);
+    return canonical(finite(field, SPEED_OF_LIGHT / f, v));
   }
   throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
 }
@@ -137,7 +145,7 @@ export function parseNumber(field: string, v: FieldValue): number {
   if (bare !== null) return bare;
   const t = (v as string).trim();
   const m = /^(.*?)\s*%$/.exec(t);
-  if (m && BARE_NUMBER.test(m[1])) return canonical(Number(m[1]) / 100);
+  if (m && BARE_NUMBER.test(m[1])) return canonical(finite(field, Number(m[1]) / 100, v));
   throw new HushInputError(field, `${field} must be a plain number (got ${JSON.stringify(t)})`, 'value');
 }
 
@@ -151,7 +159,7 @@ export function parsePrice(field: string, v: FieldValue): number {
   const t = (v as string).trim();
   const m = /^([^\d+\-.\s]{0,4})\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([A-Za-z]{0,4}|[^\d\s/]{0,2})?\s*(?:(?:\/|per)\s*(h|hr|hour|node-hour|node-h|node hour))?$/i.exec(t);
   if (!m) throw new HushInputError(field, `${field} must be a price per hour such as 3, 3/h or $3/h (got ${JSON.stringify(t)})`, 'value');
-  return Number(m[2]);
+  return finite(field, Number(m[2]), v);
 }
 
 /** A gap: "5" or "5 cells" (cells), "0.5 wavelengths" / "0.5 λ" (in the medium), or a length. */
@@ -162,10 +170,10 @@ export function parseGap(field: string, v: FieldValue): Gap {
   if (bare !== null) return { cells: bare };
   const t = (v as string).trim();
   const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(cells?|wavelengths?|λ|lambda)$/i.exec(t);
-  if (m) return /^cell/i.test(m[2]) ? { cells: Number(m[1]) } : { wavelengths: Number(m[1]) };
+  if (m) return /^cell/i.test(m[2]) ? { cells: finite(field, Number(m[1]), v) } : { wavelengths: finite(field, Number(m[1]), v) };
   const u = parseUnit(field, t, 'a number of cells, of wavelengths, or a length');
   if (!u.equalBase(reference.length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
-  return { metres: canonical(u.toNumber('m')) };
+  return { metres: canonical(finite(field, u.toNumber('m'), v)) };
 }
 
 /** A word from a fixed list (case-insensitive). */
@@ -183,5 +191,5 @@ export function parseNumberList(field: string, v: FieldValue): number[] {
   if (!parts.length || parts.some((p) => !BARE_NUMBER.test(p))) {
     throw new HushInputError(field, `${field} must be a list of numbers such as 2, 3, 4 (got ${JSON.stringify(describe(v))})`, 'value');
   }
-  return parts.map(Number);
+  return parts.map((p) => finite(field, Number(p), p));
 }
