@@ -60,11 +60,18 @@ export function timeStep(cellMetres: number, courant: number, dimensions: number
   return (s * d) / SPEED_OF_LIGHT;
 }
 
+/** Most time steps a run may take: beyond 2⁵³ − 1 a step count is no longer a whole number in double precision (and runtimes overflow). */
+export const MAX_STEPS = Number.MAX_SAFE_INTEGER;
+
 /** Steps = ⌈T/Δt⌉ (at least 1); a ratio within 10⁻⁹ of a whole number counts as it (floating-point noise). */
 export function stepCount(durationSeconds: number, timeStepSeconds: number): number {
   const T = inRange('duration', durationSeconds, 0, Infinity, { loOpen: true, hiOpen: true, unit: 's' });
   const dt = inRange('time step', timeStepSeconds, 0, Infinity, { loOpen: true, hiOpen: true, unit: 's' });
   const x = T / dt;
+  if (!(x <= MAX_STEPS)) {
+    const needed = Number.isFinite(x) ? x.toExponential(3) : 'more than 1e308';
+    throw new HushInputError('steps', `the run needs ${needed} time steps (duration ${T} s / time step ${dt} s), more than ${MAX_STEPS}: check the duration and the cell size`);
+  }
   const r = Math.round(x);
   return Math.max(1, Math.abs(x - r) <= 1e-9 * x ? r : Math.ceil(x));
 }

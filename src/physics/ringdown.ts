@@ -5,6 +5,7 @@
  *   t = 2Q·ln(1/δ)/ω                                                  (derived)
  * (Q = ω·stored energy / power lost; Jackson, Classical Electrodynamics, §8.8).
  */
+import { HushInputError } from './errors';
 import { inRange } from './validate';
 
 /** Largest quality factor accepted (10¹²; beyond it no time-domain run is sensible). */
@@ -19,5 +20,11 @@ export function ringdownTime(q: number, frequencyHz: number, target: number): nu
   const Q = inRange('quality factor', q, 0, MAX_QUALITY_FACTOR, { loOpen: true });
   const f = inRange('ring-down frequency', frequencyHz, 0, Infinity, { loOpen: true, hiOpen: true, unit: 'Hz' });
   const d = inRange('ring-down target', target, 0, 1, { loOpen: true, hiOpen: true });
-  return (2 * Q * Math.log(1 / d)) / (2 * Math.PI * f);
+  // 1/δ overflows for δ below 1/Number.MAX_VALUE (5e-324 gave an infinite ring-down); there ln(1/δ) = −ln δ.
+  const inverse = 1 / d;
+  const t = (2 * Q * (Number.isFinite(inverse) ? Math.log(inverse) : -Math.log(d))) / (2 * Math.PI * f);
+  if (!Number.isFinite(t)) {
+    throw new HushInputError('ring-down frequency', `ring-down at ${f} Hz with quality factor ${Q} takes longer than any run can (the time overflows): check the frequency`);
+  }
+  return t;
 }
