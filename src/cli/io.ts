@@ -20,3 +20,8 @@ export function fmt(x: number, digits = 4): string {
   if (a < 1e-3 || a >= 1e6) return x.toExponential(digits - 1);
   return Number(x.toPrecision(digits)).toString();
 }
+
+/** An error message as one line of stderr: line breaks inside it (from text the user typed) are shown escaped. */
+export function oneLine(message: string): string {
+  return message.replace(/\r/g, '\\r').replace(/\n/g, '\\n');
+}

@@ -4,7 +4,7 @@
  */
 import { isHushInputError } from '../physics/errors';
 import { UsageError } from './args';
-import { processIO, type CommandIO } from './io';
+import { oneLine, processIO, type CommandIO } from './io';
 import { reflectCommand, reflectUsage } from './reflect';
 import { budgetCommand, budgetUsage } from './budget';
 import { designCommand, designUsage } from './design';
@@ -60,10 +60,10 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
     return await entry.run(rest, io);
   } catch (e) {
     if (e instanceof UsageError || isHushInputError(e)) {
-      io.err(`hush ${name}: ${e.message}`);
+      io.err(`hush ${name}: ${oneLine(e.message)}`);
       return 2;
     }
-    io.err(`hush ${name}: internal error: ${e instanceof Error ? e.message : String(e)}`);
+    io.err(`hush ${name}: internal error: ${oneLine(e instanceof Error ? e.message : String(e))}`);
     return 1;
   }
 }

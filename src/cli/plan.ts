@@ -3,7 +3,7 @@ import { INPUT_NAMES, OUTPUT_NAMES, errorToRow, headerName, planRow, planToRow, 
 import { isBlank } from '../plan/units';
 import { readTable, tableFormat, writeTable, type PlannedRow, type Table } from '../plan/table-file';
 import { parseArgs, stringOption, UsageError } from './args';
-import { fmt, processIO, type CommandIO } from './io';
+import { fmt, oneLine, processIO, type CommandIO } from './io';
 
 export const planUsage =
   'hush plan TABLE.csv|TABLE.xlsx [--out PLAN.xlsx|PLAN.csv|PLAN.json] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts)';
@@ -41,7 +41,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   try {
     table = await readTable(file);
   } catch (e) {
-    io.err(`hush plan: cannot read ${file}: ${e instanceof Error ? e.message : String(e)}`);
+    io.err(`hush plan: cannot read ${file}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
     return 2;
   }
   const names = table.header.map(headerName);
@@ -57,7 +57,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   const total = table.rows.length;
   table.rows.forEach((values, i) => {
     const row = rowFromTable(table.header, values);
-    const label = isBlank(row.study) ? `row ${i + 2}` : String(row.study).trim();
+    const label = isBlank(row.study) ? `row ${i + 2}` : String(row.study).trim().replace(/\s+/g, ' ');
     if (values.every(isBlank)) {
       planned.push({ values, outputs: null, failed: false });
     } else {
@@ -82,7 +82,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
         failures++;
         const msg = isHushInputError(e) ? e.message : `internal error: ${e instanceof Error ? e.message : String(e)}`;
         planned.push({ values, outputs: errorToRow(msg), failed: true });
-        summary.push([label, 'ERROR', '', '', '', '', '', '', '', '', msg]);
+        summary.push([label, 'ERROR', '', '', '', '', '', '', '', '', oneLine(msg)]);
       }
     }
     if (bar) bar(i + 1, total);
@@ -112,13 +112,13 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     try {
       await writeTable(out, table.header, planned);
     } catch (e) {
-      io.err(`hush plan: cannot write ${out}: ${e instanceof Error ? e.message : String(e)}`);
+      io.err(`hush plan: cannot write ${out}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
       return 2;
     }
     if (!args.options.has('json')) io.out(`wrote ${out}`);
   }
   for (const [i, r] of planned.entries()) {
-    if (r.failed && r.outputs) io.err(`hush plan: row ${i + 2}: ${String(r.outputs[OUTPUT_NAMES.indexOf('notes')]).replace(/^error: /, '')}`);
+    if (r.failed && r.outputs) io.err(`hush plan: row ${i + 2}: ${oneLine(String(r.outputs[OUTPUT_NAMES.indexOf('notes')]).replace(/^error: /, ''))}`);
   }
   return failures ? 1 : 0;
 }

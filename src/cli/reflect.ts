@@ -17,8 +17,10 @@ export function reflectCommand(argv: string[], io: CommandIO): number {
   const cell = numberOption(args, 'cell');
   if (alphaMax !== 0 && cell === undefined) throw new UsageError('--alpha-max (S/m) needs --cell METRES to normalise it');
   if (cell !== undefined && !(cell > 0)) throw new UsageError(`--cell must be a positive length in metres (got ${cell})`);
+  if (alphaMax < 0) throw new UsageError(`--alpha-max must be at least 0 S/m (got ${alphaMax})`);
   // α_norm = α·η₀·Δ·n (physics.md §3).
   const alphaMaxNorm = cell === undefined ? 0 : alphaMax * ETA0 * cell * index;
+  if (!Number.isFinite(alphaMaxNorm)) throw new UsageError(`--alpha-max ${alphaMax} S/m with --cell ${cell} m and --index ${index} is out of range (α·η₀·Δ·n overflows)`);
   const design = {
     layers: requiredNumber(args, 'layers'),
     order: requiredNumber(args, 'order'),
