@@ -247,6 +247,10 @@ export function planInputs(row: ProjectRow): PlanInputs {
   const kappaMax = optional(row, 'kappa_max', parseNumber) ?? 1;
   const alphaMax = optional(row, 'alpha_max', parseNumber) ?? 0;
   if (!(alphaMax >= 0)) throw new HushInputError('alpha_max', `alpha_max must be at least 0 S/m (got ${alphaMax})`);
+  // α_norm = α·η₀·Δ·n (physics.md §3) must stay a finite number (alpha_max 1e308 S/m overflowed it).
+  if (!Number.isFinite(alphaMax * ETA0 * cell * index)) {
+    throw new HushInputError('alpha_max', `alpha_max ${alphaMax} S/m is out of range for a ${cell} m cell at index ${index} (α·η₀·Δ·n overflows)`);
+  }
   const absorberFactor = optional(row, 'absorber_factor', parseNumber) ?? 1.5;
   const fieldsPerCell = optional(row, 'fields_per_cell', parseNumber);
   const materialPerCell = optional(row, 'material_per_cell', parseNumber);
