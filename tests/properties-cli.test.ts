@@ -345,7 +345,7 @@ describe('property: quick commands exit 0 with finite output or 2 with one line'
       fc.asyncProperty(reflectArgs, async (a) => checkCall('reflect', ['reflect', ...a], await run(['reflect', ...a]), FAST_CALL_BOUND_MS)),
       params(RUNS),
     );
-    expect(tallies.reflect.codes[0]).toBeGreaterThan(RUNS * 0.15);
+    expect(tallies.reflect.codes[0]).toBeGreaterThan(RUNS * 0.1);
   }, 120_000);
 
   it(`hush budget (${RUNS} calls)`, async () => {
@@ -353,7 +353,7 @@ describe('property: quick commands exit 0 with finite output or 2 with one line'
       fc.asyncProperty(budgetArgs, async (a) => checkCall('budget', ['budget', ...a], await run(['budget', ...a]), FAST_CALL_BOUND_MS)),
       params(RUNS),
     );
-    expect(tallies.budget.codes[0]).toBeGreaterThan(RUNS * 0.15);
+    expect(tallies.budget.codes[0]).toBeGreaterThan(RUNS * 0.1);
   }, 120_000);
 
   it(`hush ripple (${RUNS} calls)`, async () => {
@@ -361,7 +361,7 @@ describe('property: quick commands exit 0 with finite output or 2 with one line'
       fc.asyncProperty(rippleArgs, async (a) => checkCall('ripple', ['ripple', ...a], await run(['ripple', ...a]), FAST_CALL_BOUND_MS)),
       params(RUNS),
     );
-    expect(tallies.ripple.codes[0]).toBeGreaterThan(RUNS * 0.15);
+    expect(tallies.ripple.codes[0]).toBeGreaterThan(RUNS * 0.1);
   }, 120_000);
 
   it(`hush cost (${RUNS} calls)`, async () => {
@@ -424,7 +424,7 @@ describe('property: hush design exits 0 with finite output or 2 with one line', 
       fc.asyncProperty(designArgs, async (a) => checkCall('design', ['design', ...a], await run(['design', ...a]), SLOW_CALL_BOUND_MS)),
       params(RUNS),
     );
-    expect(tallies.design.codes[0]).toBeGreaterThan(RUNS * 0.15);
+    expect(tallies.design.codes[0]).toBeGreaterThan(RUNS * 0.1);
   }, 120_000);
 });
 
@@ -718,6 +718,13 @@ describe('regressions found by the CLI properties', () => {
   });
   it('a line break in a value stays on one line of stderr', async () => {
     await refused(['cost', '--cells', '10', '--layers', '2', '--cell', '1\n2', '--courant', '0.5', '--duration', '1 ps'], /cell must be a length \(got "1\\n2": .*\\n/);
+  });
+  it('an alpha_max whose normalised value overflows fails its row in S/m, not as a normalised Infinity', async () => {
+    const file = path.join(dir, 'regression-alpha.csv');
+    writeFileSync(file, writeCsv([demoHeader, bases[0].map((v, k) => (demoHeader[k] === 'alpha_max' ? '1e308' : v))]));
+    const c = await run(['plan', file]);
+    expect(c.code).toBe(1);
+    expect(c.err).toEqual(['hush plan: row 2: alpha_max 1e+308 S/m is out of range for a 2e-8 m cell at index 1.44 (α·η₀·Δ·n overflows)']);
   });
   it('a table cell "-1e400" fails its row quoting the text, not as -Infinity', async () => {
     const file = path.join(dir, 'regression-1e400.csv');
