@@ -4,7 +4,7 @@
  * it (physics.md §2). Points the model cannot evaluate (a wave the grid cannot
  * carry at that angle) are null, so the chart leaves a gap instead of a guess.
  */
-import { reflection, type AbsorberDesign } from '../src/physics';
+import { reflection, type AbsorberDesign } from '../src/plan/steps';
 
 export interface GridOfStudy {
   courant: number;

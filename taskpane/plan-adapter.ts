@@ -20,7 +20,7 @@ import {
   type PlanInputs,
   type ProjectRow,
 } from '../src/plan';
-import { ETA0 } from '../src/physics/constants';
+import { ETA0 } from '../src/plan/steps';
 import type { RowValues, TableSchema } from '../src/workbook/types';
 
 export type { Plan, PlanInputs, ProjectRow };

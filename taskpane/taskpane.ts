@@ -6,7 +6,7 @@
  * Excel (no Office host, or ?preview) it works on the embedded demo project
  * in an in-page table. The logic below is the same for both (src/workbook).
  */
-import { MODEL_VERSION, type AbsorberDesign } from '../src/physics';
+import { MODEL_VERSION, type AbsorberDesign } from '../src/plan/steps';
 import { parseCsv } from '../src/plan/csv';
 import { APP_VERSION } from '../src/functions/version';
 import { MemoryWorkbook } from '../src/workbook/memory';

@@ -6,8 +6,8 @@
  * widened symmetrically in frequency around it, measuring only frequencies
  * inside the study's band. The 2-D run uses the study's largest angle.
  */
-import type { AbsorberDesign } from '../src/physics';
-import { createMeasurement1D, createMeasurement2D, type MeasureOptions1D, type MeasureOptions2D, type MeasurementRun } from '../src/physics/fdtd';
+import type { AbsorberDesign } from '../src/plan/steps';
+import { createMeasurement1D, createMeasurement2D, type MeasureOptions1D, type MeasureOptions2D, type MeasurementRun } from '../src/plan/steps';
 import type { VerifyGrid } from './verify-protocol';
 
 /** Largest runs the pane starts, in cell updates (about 10–20 s of a browser's single thread for the 2-D run). */

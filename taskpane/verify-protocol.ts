@@ -1,5 +1,5 @@
 /** Messages between the pane and the verification worker (verify.worker.ts). */
-import type { AbsorberDesign } from '../src/physics';
+import type { AbsorberDesign } from '../src/plan/steps';
 
 /** The grid and band a design is verified on (the study's). */
 export interface VerifyGrid {

@@ -3,7 +3,7 @@
  * progress and cancellation. A cancelled or superseded run never resolves
  * with stale points.
  */
-import type { AbsorberDesign } from '../src/physics';
+import type { AbsorberDesign } from '../src/plan/steps';
 import type { FromWorker, MeasuredPoint, ToWorker, VerifyGrid } from './verify-protocol';
 
 export interface VerifyHandlers {

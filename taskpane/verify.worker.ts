@@ -2,7 +2,7 @@
  * Web Worker: runs the time-domain measurements of one design (1-D, then 2-D)
  * in chunks, posting progress, and stops when the pane sends a cancel.
  */
-import { isMeasurementCancelled, runInChunks, type ReflectionMeasurement } from '../src/physics/fdtd';
+import { isMeasurementCancelled, runInChunks, type ReflectionMeasurement } from '../src/plan/steps';
 import { chooseRuns } from './verify-plan';
 import type { FromWorker, MeasuredPoint, ToWorker } from './verify-protocol';
 

@@ -1,4 +1,4 @@
-import { intensityErrorFromAmplitude, requiredAmplitude, type PhaseModel } from '../physics';
+import { intensityErrorFromAmplitude, requiredAmplitude, type PhaseModel } from '../plan/steps';
 import { numberOption, parseArgs, stringOption, UsageError } from './args';
 import { fmt, type CommandIO } from './io';
 

@@ -1,4 +1,4 @@
-import { FACE_NAMES, runCost, type FaceKind } from '../physics';
+import { FACE_NAMES, runCost, type FaceKind } from '../plan/steps';
 import { parseLength, parseTime } from '../plan/units';
 import { numberOption, parseArgs, requiredNumber, stringOption, UsageError } from './args';
 import { fmt, type CommandIO } from './io';

@@ -1,4 +1,4 @@
-import { designOptions } from '../physics';
+import { designOptions } from '../plan/steps';
 import { numberOption, parseArgs, requiredNumber, stringOption, UsageError } from './args';
 import { fmt, type CommandIO } from './io';
 

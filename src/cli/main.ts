@@ -2,7 +2,7 @@
  * `hush` command line: a thin shell over the physics core and the plan API.
  * Exit codes: 0 success, 1 a row or file failed, 2 bad arguments or input.
  */
-import { isHushInputError } from '../physics/errors';
+import { isHushInputError } from '../plan/steps';
 import { UsageError } from './args';
 import { oneLine, processIO, type CommandIO } from './io';
 import { reflectCommand, reflectUsage } from './reflect';

@@ -1,4 +1,4 @@
-import { isHushInputError } from '../physics/errors';
+import { isHushInputError } from '../plan/steps';
 import { INPUT_NAMES, OUTPUT_NAMES, errorToRow, headerName, planRow, planToRow, rowFromTable, type PlanCell } from '../plan';
 import { isBlank } from '../plan/units';
 import { readTable, tableFormat, writeTable, type PlannedRow, type Table } from '../plan/table-file';

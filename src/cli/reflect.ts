@@ -1,4 +1,4 @@
-import { ETA0, reflection } from '../physics';
+import { ETA0, reflection } from '../plan/steps';
 import { parseArgs, numberOption, requiredNumber, UsageError } from './args';
 import { fmt, type CommandIO } from './io';
 

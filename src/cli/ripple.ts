@@ -1,4 +1,4 @@
-import { reflectionFromRipple, rippleFromReflection } from '../physics';
+import { reflectionFromRipple, rippleFromReflection } from '../plan/steps';
 import { numberOption, parseArgs, UsageError } from './args';
 import { fmt, type CommandIO } from './io';
 

@@ -16,7 +16,7 @@
  * the core's range checks like any number, which report it.
  * Every refusal is a HushInputError of kind 'value' naming the argument.
  */
-import { HushInputError, quote } from '../physics';
+import { HushInputError, quote } from '../plan/steps';
 import { parseAngle } from '../plan/units';
 
 /** True for the ways Excel says "no value": null, undefined, "" and blank text. */

@@ -4,7 +4,7 @@
  * output columns, planHeaderText). Columns the design row shares with the
  * plan row carry the same header text.
  */
-import type { DesignResult } from '../physics';
+import type { DesignResult } from '../plan/steps';
 import { OUTPUT_COLUMNS, outputHeaderText, type OutputColumn } from '../plan';
 
 function planColumn(name: string): OutputColumn {

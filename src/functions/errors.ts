@@ -4,7 +4,7 @@
  * (a number outside what the model accepts), with the message in the cell's
  * error tooltip.
  */
-import { isHushInputError } from '../physics';
+import { isHushInputError } from '../plan/steps';
 
 /** The CustomFunctions.Error that Excel should show for an exception thrown while computing. */
 export function toWorksheetError(e: unknown): CustomFunctions.Error {

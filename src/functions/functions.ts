@@ -31,7 +31,7 @@ import {
   type DesignSpec,
   type PhaseModel,
   type WaveSpec,
-} from '../physics';
+} from '../plan/steps';
 import { OUTPUT_NAMES, planHeaderText, planToRow, type Plan } from '../plan';
 import { numberListOrText, optionalAngle, optionalChoice, optionalNumber, requiredNumber } from './args';
 import { DESIGN_COLUMNS } from './columns';

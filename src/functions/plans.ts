@@ -10,7 +10,7 @@
  * design would otherwise run the whole search again for every function that
  * reads it). The plan API keeps its own cache of plans by parsed inputs.
  */
-import { designAbsorber, HushInputError, type DesignResult, type DesignSpec } from '../physics';
+import { designAbsorber, HushInputError, type DesignResult, type DesignSpec } from '../plan/steps';
 import { INPUT_NAMES, headerName, planRow, rowFromTable, type FieldValue, type Plan, type ProjectRow } from '../plan';
 import { toWorksheetError } from './errors';
 import { scheduler } from './scheduler';

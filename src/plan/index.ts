@@ -36,6 +36,7 @@ import {
 } from './units';
 
 export * from './fields';
+export * from './steps';
 export { type FieldValue } from './units';
 
 /** A project row: field name → value as typed (text or number). Unknown names are ignored. */
