@@ -68,7 +68,7 @@ describe('ripple diagnostics (physics.md §1)', () => {
     expect(rippleFromReflection(0.01, 1e-3).peakToPeak).toBeCloseTo(0.04, 15);
     expect(rippleFromReflection(0.01, 1e-3, 1, 0.5).peakToPeak).toBeCloseTo(0.02, 15);
   });
-  it('period c/(2 n_g L) (Fabry–Perot free spectral range; Saleh & Teich, Fundamentals of Photonics, ch. 7)', () => {
+  it('period c/(2 n_g L) (Fabry–Perot free spectral range; Saleh & Teich, Fundamentals of Photonics, Fabry–Perot resonator)', () => {
     // L = 10 µm in n_g = 4.2: FSR = 299792458/(2·4.2·1e-5) ≈ 3.569 THz
     expect(rippleFromReflection(1e-3, 1e-5, 4.2).periodHz).toBeCloseTo(299792458 / (2 * 4.2 * 1e-5), 3);
   });

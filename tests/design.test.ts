@@ -100,7 +100,7 @@ describe('absorber design (issue: thinnest absorber that meets a tolerated error
     }
   });
 
-  it('the textbook recipe (σ_max from the continuous R(0) at the same N) misses the target on the grid by 4–140× where thin layers meet tight targets (Taflove & Hagness, 3rd ed., eq. 7.60 vs the exact discrete model)', () => {
+  it('the textbook recipe (σ_max from the continuous R(0) at the same N) misses the target on the grid by 4–140× where thin layers meet tight targets (Taflove & Hagness, 3rd ed., ch. 7 vs the exact discrete model)', () => {
     // m = 3, 20 cells/λ, normal incidence; misses seen when this test was written: 4.5×, 24×, 136×.
     const cases: [number, number, number][] = [
       [8, 1e-5, 4],

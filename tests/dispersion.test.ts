@@ -9,7 +9,7 @@ import {
 } from '../src/physics';
 
 describe('Courant limit', () => {
-  it('is 1/√D on a uniform cubic grid (Taflove & Hagness, 3rd ed., §4.7)', () => {
+  it('is 1/√D on a uniform cubic grid (Taflove & Hagness, 3rd ed., ch. 4)', () => {
     expect(courantLimit(1)).toBe(1);
     expect(courantLimit(2)).toBeCloseTo(Math.SQRT1_2, 15);
     expect(courantLimit(3)).toBeCloseTo(1 / Math.sqrt(3), 15);
@@ -20,14 +20,14 @@ describe('Courant limit', () => {
 });
 
 describe('numerical phase velocity', () => {
-  it('1-D, S = 0.5: v_p/c ≈ 0.9969 at 20 cells/λ and ≈ 0.9873 at 10 (Schneider, Understanding the FDTD Method, ch. 7)', () => {
+  it('1-D, S = 0.5: v_p/c ≈ 0.9969 at 20 cells/λ and ≈ 0.9873 at 10 (Schneider, Understanding the FDTD Method, chapter on dispersion)', () => {
     expect(numericalPhaseVelocity(20, 0.5)).toBeCloseTo(0.9969, 4);
     expect(numericalPhaseVelocity(10, 0.5)).toBeCloseTo(0.9873, 4);
   });
-  it('1-D, S = 1 is dispersion-free (Schneider, ch. 3, the "magic time step")', () => {
+  it('1-D, S = 1 is dispersion-free (Schneider, Understanding the FDTD Method, the "magic time step")', () => {
     for (const p of [3, 5, 10, 40]) expect(numericalPhaseVelocity(p, 1)).toBeCloseTo(1, 12);
   });
-  it('is slowest along the axis and fastest along the diagonal in 2-D (Taflove & Hagness, 3rd ed., §4.6)', () => {
+  it('is slowest along the axis and fastest along the diagonal in 2-D (Taflove & Hagness, 3rd ed., ch. 4)', () => {
     const axis = numericalPhaseVelocity(10, 0.5, 0);
     const diag = numericalPhaseVelocity(10, 0.5, 45);
     expect(diag).toBeGreaterThan(axis);

@@ -13,12 +13,12 @@ import {
 } from '../src/physics';
 
 describe('σ_opt', () => {
-  it('is 0.8(m+1)/(η₀Δ√ε_r) (Taflove & Hagness, 3rd ed., eq. 7.67; Gedney 1996)', () => {
+  it('is 0.8(m+1)/(η₀Δ√ε_r) (Taflove & Hagness, 3rd ed., ch. 7; Gedney 1996)', () => {
     // Δ = 10 nm, m = 3, n = 1.5: 0.8·4/(376.73·1e-8·1.5)
     expect(sigmaOpt(3, 1e-8, 1.5)).toBeCloseTo(3.2 / (ETA0 * 1e-8 * 1.5), 6);
     expect(sigmaOptNorm(3)).toBeCloseTo(3.2, 15);
   });
-  it('≈ (m+1)/(150π·Δ·√ε_r), the form quoted alongside it (Taflove & Hagness, 3rd ed., §7.6): within 0.1 %', () => {
+  it('≈ (m+1)/(150π·Δ·√ε_r), the form quoted alongside it (Taflove & Hagness, 3rd ed., ch. 7): within 0.1 %', () => {
     const d = 1e-3;
     expect(sigmaOpt(4, d, 2) / (5 / (150 * Math.PI * d * 2))).toBeCloseTo(1, 2);
   });
@@ -31,7 +31,7 @@ describe('σ_opt', () => {
 });
 
 describe('continuous-theory formula', () => {
-  it('R(θ) = exp(−2nη₀σ_max d cosθ/(m+1)) (Taflove & Hagness, 3rd ed., eq. 7.60)', () => {
+  it('R(θ) = exp(−2nη₀σ_max d cosθ/(m+1)) (Taflove & Hagness, 3rd ed., ch. 7)', () => {
     const d = resolveDesign({ layers: 8, order: 2, strength: 0.7 });
     const sigmaNorm = 0.7 * 0.8 * 3; // σ_max·η₀·Δ·n
     const expected = Math.exp((-2 * sigmaNorm * 8 * Math.cos(Math.PI / 6)) / 3);
@@ -72,7 +72,7 @@ describe('exact discrete reflection', () => {
       expect(ratio).toBeGreaterThan(10);
     }
   });
-  it('with weak, smooth grading approaches the continuous formula as N grows (Taflove & Hagness, 3rd ed., §7.6; Oskooi et al. 2008)', () => {
+  it('with weak, smooth grading approaches the continuous formula as N grows (Taflove & Hagness, 3rd ed., ch. 7; Oskooi et al. 2008)', () => {
     // Fixed continuous round trip R = 1e-2, so σ_max falls as 1/N and the grading gets smoother.
     const ratios = [16, 32, 64, 128].map((N) => {
       const r = reflection({ layers: N, order: 2, strength: Math.log(100) / (1.6 * N) }, { ppw: 40 });

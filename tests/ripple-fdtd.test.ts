@@ -126,7 +126,7 @@ describe('spectral ripple from a thin absorber, time-domain round trip', () => {
     expect(measured / predicted).toBeLessThan(1.2);
   });
 
-  it('measured ripple period ≈ c/(2·n_g·L) (Fabry–Perot; Saleh & Teich, ch. 7) within 20 %', () => {
+  it('measured ripple period ≈ c/(2·n_g·L) (Fabry–Perot; Saleh & Teich, Fundamentals of Photonics, Fabry–Perot resonator) within 20 %', () => {
     // Local maxima of the ratio between 15 and 30 cells per wavelength.
     const peaks: number[] = [];
     for (let k = 1; k < count - 1; k++) {

@@ -6,7 +6,7 @@
  *
  * Stated constants (defaults; all adjustable):
  * - field values per cell: 6 in 3-D (Ex, Ey, Ez, Hx, Hy, Hz), 3 in 2-D (one
- *   polarisation), 2 in 1-D (Yee 1966; Taflove & Hagness, 3rd ed., ch. 3);
+ *   polarisation), 2 in 1-D (Yee 1966; Taflove & Hagness, 3rd ed.);
  * - material values per cell: one update coefficient per E component
  *   (3, 1, 1), non-magnetic media assumed;
  * - ψ per cell per stretched axis: 4 in 3-D, 2 in 2-D and 1-D (domain.ts);

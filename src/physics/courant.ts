@@ -4,7 +4,7 @@ import { finite, wholeInRange } from './validate';
 /** Spatial dimensions of a Yee grid. */
 export type Dimensions = 1 | 2 | 3;
 
-/** Courant limit S = cΔt/Δ ≤ 1/√D on a uniform cubic grid in D dimensions (Taflove & Hagness, 3rd ed., §4.7). */
+/** Courant limit S = cΔt/Δ ≤ 1/√D on a uniform cubic grid in D dimensions (Taflove & Hagness, 3rd ed., ch. 4). */
 export function courantLimit(dimensions: number): number {
   const d = wholeInRange('dimensions', dimensions, 1, 3);
   return 1 / Math.sqrt(d);

@@ -1,6 +1,6 @@
 /**
  * CPML recursive-convolution coefficients per node (Roden & Gedney, Microwave
- * Opt. Technol. Lett. 27, 334 (2000); Taflove & Hagness, 3rd ed., §7.9):
+ * Opt. Technol. Lett. 27, 334 (2000); Taflove & Hagness, 3rd ed., ch. 7):
  *   b = exp(−(σ/κ + α)·Δt/ε₀),  a = σ·(b − 1)/(σκ + κ²α),
  *   ψⁿ = b·ψⁿ⁻¹ + a·Dⁿ, stretched difference = D/κ + ψ.
  * Node convention (physics.md §3): E nodes at depths i = 0…N, H nodes at

@@ -442,7 +442,7 @@ export function clearDesignCache(): void {
 
 /**
  * Strength of the textbook recipe: σ_max chosen so that the continuous-theory
- * R(θ) of a layer of N cells equals the target (Taflove & Hagness, 3rd ed., eq. 7.60 solved for σ_max):
+ * R(θ) of a layer of N cells equals the target (the continuous formula of Taflove & Hagness, 3rd ed., ch. 7, solved for σ_max):
  * s = ln(1/R)/(1.6·N·cos θ).
  */
 export function textbookStrength(target: number, layers: number, angleDeg = 0): number {

@@ -3,7 +3,7 @@
  * lengths in cells, the wave speed of the medium set to 1, Courant number
  * S_m = vΔt/Δ = S/n (physics.md §3, §4).
  *
- * Dispersion relation on a uniform grid (Taflove & Hagness, 3rd ed., eq. 4.12):
+ * Dispersion relation on a uniform grid (Taflove & Hagness, 3rd ed., ch. 4):
  *   (sin(ωΔt/2)/(vΔt))² = Σ_i (sin(k_i·Δ/2)/Δ)².
  */
 import { HushInputError } from './errors';
@@ -105,7 +105,7 @@ export function discreteWavenumber(ppw: number, courantMedium: number, angleDeg 
  * Numerical phase velocity relative to the medium's wave speed, v_p/v = ω/(|k̃|v),
  * for `ppw` cells per (physical) wavelength, vacuum Courant number `courant`,
  * direction `angleDeg` and background index `index`.
- * Check values: Schneider, Understanding the FDTD Method, ch. 7 (1-D, S = 0.5).
+ * Check values: Schneider, Understanding the FDTD Method, chapter on dispersion (1-D, S = 0.5).
  */
 export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 0, index = 1): number {
   const n = inRange('background index', index, 1, 100);

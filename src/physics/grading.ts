@@ -44,7 +44,7 @@ export interface ResolvedDesign {
 
 /**
  * σ_opt·η₀·Δ·n = 0.8·(m + 1): Gedney's "optimal" conductivity (Taflove & Hagness,
- * 3rd ed., eq. 7.67; Gedney 1996), in normalised form.
+ * 3rd ed., ch. 7; Gedney 1996), in normalised form.
  */
 export function sigmaOptNorm(order: number): number {
   return 0.8 * (order + 1);

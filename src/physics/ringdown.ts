@@ -3,7 +3,7 @@
  * angular frequency ω loses energy at the rate ω/Q, so its amplitude decays as
  * e^{−ωt/(2Q)}; reaching a relative amplitude δ takes
  *   t = 2Q·ln(1/δ)/ω                                                  (derived)
- * (Q = ω·stored energy / power lost; Jackson, Classical Electrodynamics, §8.8).
+ * (Q = ω·stored energy / power lost; Jackson, Classical Electrodynamics, resonant cavities).
  */
 import { HushInputError } from './errors';
 import { inRange } from './validate';

@@ -4,7 +4,7 @@
  * swing between (1 − A)² and (1 + A)², a peak-to-peak swing of exactly 4A of the
  * unperturbed intensity (derived), with a period in frequency of
  * c₀/(2·n_g·L) for a reflecting pair a distance L apart (Fabry–Perot; Saleh &
- * Teich, Fundamentals of Photonics, ch. 7).
+ * Teich, Fundamentals of Photonics, the Fabry–Perot resonator).
  */
 import { SPEED_OF_LIGHT } from './constants';
 import { HushInputError } from './errors';

@@ -3,7 +3,7 @@
  * steps [ωLow, ωHigh] (radians per time step):
  *   g[n] = exp(−((n − n₀)/τ)²)·sin(ω₀·(n − n₀)),
  * whose spectrum is ∝ exp(−(ω − ω₀)²τ²/4) around ω₀ (Fourier pair of the
- * Gaussian, e.g. Bracewell, The Fourier Transform and Its Applications, ch. 6).
+ * Gaussian, e.g. Bracewell, The Fourier Transform and Its Applications).
  * The width is chosen so the spectrum is at least EDGE_LEVEL_MIN of its peak at
  * both band edges and below CUTOFF_LEVEL at the grid's cut-offs (where the
  * group velocity along x vanishes) and at zero frequency, so a finite record
