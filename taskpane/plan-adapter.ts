@@ -48,16 +48,17 @@ export function studyPlan(values: RowValues): Plan {
 }
 
 /**
- * Common practice (no single source): a CFS shift α is worth comparing when
- * the band's long end spans many cells, where slowly varying and evanescent
- * fields reach the absorber (Roden & Gedney 2000; Bérenger, IEEE TAP 50, 258 (2002)).
+ * When the pane offers a CFS option: a CFS shift α helps where slowly varying
+ * and evanescent fields reach the absorber (Roden & Gedney 2000), i.e. when the
+ * band's long end spans many cells. The threshold of 40 cells per wavelength is
+ * this planner's own default, an assumption rather than a published value.
  */
 export const CFS_RELEVANT_PPW = 40;
 
 /**
  * α_max suggested for the CFS option: the shift frequency α/(2πε₀) at half the
- * band's lowest frequency, so that α/ω ≤ ½ across the band (common practice:
- * the shift sits below the band). In normalised form α_norm = α·η₀·Δ·n and
+ * band's lowest frequency, so that α/ω ≤ ½ across the band (the shift sits
+ * below the band, as the CFS is meant to; the factor ½ is this planner's own default). In normalised form α_norm = α·η₀·Δ·n and
  * ω_norm = 2π/ppw (physics.md §3), so α_norm = π/ppw_long.
  */
 export function suggestedAlphaMax(plan: Plan): number {
