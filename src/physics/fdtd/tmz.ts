@@ -14,6 +14,7 @@
 import type { CpmlCoefficients } from '../cpml';
 import { HushInputError } from '../errors';
 import { inRange, wholeInRange } from '../validate';
+import { createArena, type WasmArena } from './wasm/runtime';
 
 /** Largest grid the engine builds (Ez values). */
 export const MAX_GRID_NODES = 50_000_000;
@@ -46,20 +47,57 @@ interface Side {
   psiH: Float64Array;
 }
 
-function makeSide(c: CpmlCoefficients | null | undefined, ny: number): Side | null {
-  if (c === null || c === undefined) return null;
-  const n = wholeInRange('absorber layers', c.layers, 1, MAX_GRID_NODES);
+/** Float64Array storage: plain, or inside a WebAssembly arena (then with its byte offset). */
+type Alloc = (length: number) => { array: Float64Array; offset: number };
+
+const plainAlloc: Alloc = (length) => ({ array: new Float64Array(length), offset: -1 });
+
+function copyInto(alloc: Alloc, src: Float64Array, length: number): { array: Float64Array; offset: number } {
+  const a = alloc(length);
+  a.array.set(src.subarray(0, length));
+  return a;
+}
+
+function sideLayers(c: CpmlCoefficients | null | undefined): number {
+  if (c === null || c === undefined) return 0;
+  return wholeInRange('absorber layers', c.layers, 1, MAX_GRID_NODES);
+}
+
+/** Builds a side's arrays; `record` (9 int32: layers and 8 byte offsets) describes it to the WebAssembly step. */
+function makeSide(c: CpmlCoefficients | null | undefined, ny: number, alloc: Alloc, record: Int32Array | null): Side | null {
+  const n = sideLayers(c);
+  if (n === 0 || !c) return null;
+  const parts = [
+    copyInto(alloc, c.eB, n + 1),
+    copyInto(alloc, c.eA, n + 1),
+    copyInto(alloc, c.eInvKappa, n + 1),
+    copyInto(alloc, c.hB, n),
+    copyInto(alloc, c.hA, n),
+    copyInto(alloc, c.hInvKappa, n),
+    alloc(n * ny),
+    alloc(n * ny),
+  ];
+  if (record) {
+    record[0] = n;
+    for (let k = 0; k < 8; k++) record[k + 1] = parts[k].offset;
+  }
   return {
     layers: n,
-    eB: c.eB.slice(0, n + 1),
-    eA: c.eA.slice(0, n + 1),
-    eInvKappa: c.eInvKappa.slice(0, n + 1),
-    hB: c.hB.slice(0, n),
-    hA: c.hA.slice(0, n),
-    hInvKappa: c.hInvKappa.slice(0, n),
-    psiE: new Float64Array(n * ny),
-    psiH: new Float64Array(n * ny),
+    eB: parts[0].array,
+    eA: parts[1].array,
+    eInvKappa: parts[2].array,
+    hB: parts[3].array,
+    hA: parts[4].array,
+    hInvKappa: parts[5].array,
+    psiE: parts[6].array,
+    psiH: parts[7].array,
   };
+}
+
+/** Bytes a grid needs in a WebAssembly arena (with alignment slack). */
+function arenaBytes(total: number, hy: number, nl: number, nr: number, ny: number): number {
+  const side = (n: number) => (n === 0 ? 0 : (3 * (n + 1) + 3 * n + 2 * n * ny) * 8 + 8 * 8);
+  return (2 * total + hy) * 8 + side(nl) + side(nr) + 2 * 9 * 4 + 64;
 }
 
 export class TmzGrid2D {
@@ -75,6 +113,7 @@ export class TmzGrid2D {
   time = 0;
   private readonly leftSide: Side | null;
   private readonly rightSide: Side | null;
+  private readonly nativeStep: (() => void) | null;
 
   constructor(grid: TmzGrid) {
     if (grid === null || typeof grid !== 'object') {
@@ -84,10 +123,8 @@ export class TmzGrid2D {
     const ny = wholeInRange('transverse cells', grid.transverseCells, 1, MAX_GRID_NODES);
     this.dt = inRange('Courant number in the medium', grid.courantMedium, 0, Math.SQRT1_2 * (1 + 1e-12), { loOpen: true });
     this.ny = ny;
-    this.leftSide = makeSide(grid.left, ny);
-    this.rightSide = makeSide(grid.right, ny);
-    const nl = this.leftSide ? this.leftSide.layers : 0;
-    const nr = this.rightSide ? this.rightSide.layers : 0;
+    const nl = sideLayers(grid.left);
+    const nr = sideLayers(grid.right);
     this.leftInterface = nl;
     this.rightInterface = nl + cells;
     this.last = nl + cells + nr;
@@ -95,9 +132,30 @@ export class TmzGrid2D {
     if (total > MAX_GRID_NODES) {
       throw new HushInputError('lossless cells', `the grid must have at most ${MAX_GRID_NODES} nodes (got ${total})`);
     }
-    this.ez = new Float64Array(total);
-    this.hx = new Float64Array(total);
-    this.hy = new Float64Array(this.last * ny);
+    // The same arrays, in WebAssembly memory when the host allows it (tmz-step.c), else plain.
+    const arena: WasmArena | null = createArena(arenaBytes(total, this.last * ny, nl, nr, ny));
+    const alloc: Alloc = arena ? (n) => arena.doubles(n) : plainAlloc;
+    const records = arena ? arena.ints(18) : null;
+    const ez = alloc(total);
+    const hx = alloc(total);
+    const hy = alloc(this.last * ny);
+    this.ez = ez.array;
+    this.hx = hx.array;
+    this.hy = hy.array;
+    this.leftSide = makeSide(grid.left, ny, alloc, records ? records.array.subarray(0, 9) : null);
+    this.rightSide = makeSide(grid.right, ny, alloc, records ? records.array.subarray(9, 18) : null);
+    if (arena && records) {
+      const step = arena.step;
+      const [pe, px, py, G, gL, gR, dt, ps] = [ez.offset, hx.offset, hy.offset, this.last, this.leftInterface, this.rightInterface, this.dt, records.offset];
+      this.nativeStep = () => step(pe, px, py, ny, G, gL, gR, dt, ps);
+    } else {
+      this.nativeStep = null;
+    }
+  }
+
+  /** True when steps run in the WebAssembly build of the same update. */
+  get usesWebAssembly(): boolean {
+    return this.nativeStep !== null;
   }
 
   /** Ez nodes, a cost measure (cell updates per step). */
@@ -125,6 +183,11 @@ export class TmzGrid2D {
    * Equivalent to "all H, then all E", with one pass over memory.
    */
   step(): void {
+    if (this.nativeStep) {
+      this.nativeStep();
+      this.time++;
+      return;
+    }
     const ez = this.ez;
     const hx = this.hx;
     const hy = this.hy;
