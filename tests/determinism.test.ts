@@ -30,21 +30,10 @@ import { clearDesignCache } from '../src/physics/design';
 import * as functions from '../src/functions/functions';
 import { clearWorksheetMemo } from '../src/functions/plans';
 import { optionPlans, outputValues, studyPlan } from '../taskpane/plan-adapter';
-
-class StubWorksheetError extends Error {
-  constructor(
-    public readonly code: string,
-    message?: string,
-  ) {
-    super(message);
-  }
-}
+import { installCustomFunctionsStub } from './support/custom-functions-stub';
 
 beforeAll(() => {
-  (globalThis as Record<string, unknown>).CustomFunctions = {
-    Error: StubWorksheetError,
-    ErrorCode: { invalidValue: '#VALUE!', invalidNumber: '#NUM!' },
-  };
+  installCustomFunctionsStub();
 });
 
 const root = path.join(__dirname, '..');

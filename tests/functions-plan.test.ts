@@ -15,21 +15,10 @@ import { parseCsv } from '../src/plan/csv';
 import { cells, cost, design, designHeader, layers, memory, plan, planHeader, runtime, steps } from '../src/functions/functions';
 import { clearWorksheetMemo, tableRow, worksheetMemoSize } from '../src/functions/plans';
 import { createScheduler, scheduler } from '../src/functions/scheduler';
-
-class StubWorksheetError extends Error {
-  constructor(
-    public readonly code: string,
-    message?: string,
-  ) {
-    super(message);
-  }
-}
+import { installCustomFunctionsStub, StubWorksheetError } from './support/custom-functions-stub';
 
 beforeAll(() => {
-  (globalThis as Record<string, unknown>).CustomFunctions = {
-    Error: StubWorksheetError,
-    ErrorCode: { invalidValue: '#VALUE!', invalidNumber: '#NUM!' },
-  };
+  installCustomFunctionsStub();
 });
 
 beforeEach(() => clearWorksheetMemo());

@@ -25,21 +25,10 @@ import { OUTPUT_NAMES } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
 import * as functions from '../src/functions/functions';
 import { scheduler } from '../src/functions/scheduler';
-
-class StubWorksheetError extends Error {
-  constructor(
-    public readonly code: string,
-    message?: string,
-  ) {
-    super(message);
-  }
-}
+import { installCustomFunctionsStub, StubWorksheetError } from './support/custom-functions-stub';
 
 beforeAll(() => {
-  (globalThis as Record<string, unknown>).CustomFunctions = {
-    Error: StubWorksheetError,
-    ErrorCode: { invalidValue: '#VALUE!', invalidNumber: '#NUM!' },
-  };
+  installCustomFunctionsStub();
   scheduler.resetStats();
 });
 
