@@ -305,7 +305,7 @@ describe('scheduler (src/functions/scheduler.ts)', () => {
     // It yielded: several slices, and other macrotasks ran in between.
     expect(st.slices).toBeGreaterThan(1);
     expect(ticks).toBeGreaterThan(1);
-    // Generous bound for a loaded 2-core CI machine; the figures seen are in the log line above.
-    expect(st.longestSliceMs).toBeLessThanOrEqual(250);
+    // How long each slice held the runtime is a time, so it is logged above and
+    // measured by `npm run bench`, not asserted here.
   }, 60_000);
 });
