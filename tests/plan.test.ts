@@ -120,6 +120,14 @@ describe('planRow: budget → design → cost', () => {
     expect(w).toMatch(/grazing incidence: at 70°/);
   });
 
+  it('a blank gap means the size includes the clearance: no gap is added and no gap warning is given (a typed 0 is warned about)', () => {
+    const typed = planRow({ ...ring, gap: 0 });
+    const blank = planRow({ ...ring, gap: '' });
+    expect(typed.warnings.join('\n')).toMatch(/absorber close to the structure: gap 0 cells/);
+    expect(blank.warnings.join('\n')).not.toMatch(/absorber close/);
+    expect(blank.cost.domain.axisCells).toEqual(typed.cost.domain.axisCells);
+  });
+
   it('stated per-cell constants can be adjusted per row', () => {
     const base = planRow(ring).cost;
     const adj = planRow({ ...ring, fields_per_cell: 12, material_per_cell: 0 }).cost;

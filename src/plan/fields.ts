@@ -18,7 +18,7 @@
  * | cells_x/y/z      | structure region in cells (instead of size_*)                  | cells                            |
  * | faces            | absorbing faces, e.g. "x-, x+, z+"                             | all faces not periodic           |
  * | periodic         | periodic axes, e.g. "x y" (no absorber there)                  | none                             |
- * | gap              | structure–absorber gap: cells, "0.5 wavelengths", or a length  | cells; 0                         |
+ * | gap              | structure–absorber gap: cells, "0.5 wavelengths", or a length  | cells; blank: 0, size includes it |
  * | angle_max        | largest angle of incidence on the absorber                     | degrees; 0                       |
  * | intensity_error  | tolerated relative intensity error at the monitor (required)   | fraction (0.01); "1%" works      |
  * | coupling         | share of the echo amplitude that reaches the monitor, (0, 1]   | 1                                |

@@ -58,6 +58,8 @@ export interface PlanInputs {
   /** FACE_NAMES order, 2·dimensions entries. */
   faces: FaceKind[];
   gapCells: number;
+  /** False when the gap cell was blank: the structure size is taken to include its clearance, and no gap warning is given. */
+  gapGiven: boolean;
   angleMaxDeg: number;
   intensityError: number;
   coupling: number;
@@ -207,7 +209,9 @@ export function planInputs(row: ProjectRow): PlanInputs {
   }
   const faces = parseFaces(row, dimensions);
 
-  const gap = optional(row, 'gap', parseGap) ?? { cells: 0 };
+  const typedGap = optional(row, 'gap', parseGap);
+  const gapGiven = typedGap !== null;
+  const gap = typedGap ?? { cells: 0 };
   let gapCells: number;
   if ('cells' in gap) gapCells = wholeCount('gap', gap.cells, 0, 1_000_000, row.gap);
   else if ('wavelengths' in gap) {
@@ -256,7 +260,7 @@ export function planInputs(row: ProjectRow): PlanInputs {
   const fieldsPerCell = optional(row, 'fields_per_cell', parseNumber);
   const materialPerCell = optional(row, 'material_per_cell', parseNumber);
   return {
-    study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells,
+    study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells, gapGiven,
     angleMaxDeg, intensityError, coupling, facesSeen, phase, share, duration, passes, q, ringTarget, ringFrequency,
     throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, absorberFactor,
     fieldsPerCell, materialPerCell,
@@ -341,7 +345,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     );
   }
   const gapWavelengths = (i.gapCells * i.cell * i.index) / i.wavelengthLong;
-  if (gapWavelengths < MIN_ADVISED_GAP_WAVELENGTHS) {
+  if (i.gapGiven && gapWavelengths < MIN_ADVISED_GAP_WAVELENGTHS) {
     warnings.push(
       `absorber close to the structure: gap ${i.gapCells} cells = ${gapWavelengths.toFixed(2)} wavelengths (longest, in the background); common practice keeps at least ${MIN_ADVISED_GAP_WAVELENGTHS} so near fields decay before the absorber`,
     );
