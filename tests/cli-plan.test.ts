@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'fs';
 import { tmpdir } from 'os';
 import { join } from 'path';
 import ExcelJS from 'exceljs';
@@ -111,6 +111,28 @@ describe('hush plan', () => {
     expect(j.rows[1].outputs.notes).toBe('error: band_short must be a length or a frequency (got 5 kg)');
     expect(typeof j.rows[2].outputs.layers).toBe('number');
     expect(j.rows[1].inputs.band_short).toBe('5 kg');
+  });
+
+  it('never writes over the project table, and replaces an existing --out file only with --replace', async () => {
+    const table = join(dir, 'keep.csv');
+    const typed = readFileSync(demo, 'utf8');
+    writeFileSync(table, typed);
+    const self = await run(['plan', table, '--out', table, '--replace']);
+    expect(self.code).toBe(2);
+    expect(self.err.split('\n')[0]).toBe(`hush plan: --out ${table} is the project table itself; write the plan to another file so the table stays as typed`);
+    expect(readFileSync(table, 'utf8')).toBe(typed);
+    const other = join(dir, 'theirs.csv');
+    writeFileSync(other, 'a,b\r\n1,2\r\n');
+    const refused = await run(['plan', table, '--out', other]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/^hush plan: --out .*theirs\.csv already exists; give --replace to overwrite it, or choose another name/);
+    expect(refused.out).toBe('');
+    expect(readFileSync(other, 'utf8')).toBe('a,b\r\n1,2\r\n');
+    expect((await run(['plan', table, '--out', other, '--replace'])).code).toBe(0);
+    expect(readFileSync(other, 'utf8')).toMatch(/^study,remark,/);
+    expect((await run(['plan', table, '--replace'])).err).toMatch(/--replace only applies with --out/);
+    // No temporary file is left beside the plan.
+    expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });
 
   it('bad arguments or an unreadable file exit with 2', async () => {

@@ -147,13 +147,13 @@ async function allInProcess(tag: string): Promise<Record<string, Outputs[]>> {
   for (const run of [1, 2]) {
     const json = path.join(dir, `${tag}-${run}.json`);
     const csv = path.join(dir, `${tag}-${run}.csv`);
-    await cli(['plan', demoFile, '--out', json]);
-    await cli(['plan', demoFile, '--out', csv]);
+    await cli(['plan', demoFile, '--out', json, '--replace']);
+    await cli(['plan', demoFile, '--out', csv, '--replace']);
     got[`hush plan --out .json (run ${run})`] = fromJson(json);
     got[`hush plan --out .csv (run ${run})`] = fromCsv(csv, got[`hush plan --out .json (run ${run})`]);
   }
   const xlsx = path.join(dir, `${tag}.xlsx`);
-  await cli(['plan', demoFile, '--out', xlsx]);
+  await cli(['plan', demoFile, '--out', xlsx, '--replace']);
   got['hush plan --out .xlsx'] = await fromXlsx(xlsx);
   got['HUSH.PLAN'] = await fromWorksheet();
   got['task pane adapter'] = fromTaskPane();
@@ -191,7 +191,7 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
     clearCaches();
     const got: Record<string, Outputs[]> = {};
     const json = path.join(dir, 'cold.json');
-    await cli(['plan', demoFile, '--out', json]);
+    await cli(['plan', demoFile, '--out', json, '--replace']);
     got['hush plan --out .json (cold)'] = fromJson(json);
     clearCaches();
     got['HUSH.PLAN (cold)'] = await fromWorksheet();
@@ -206,7 +206,7 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
 
   it('hush plan in a separate Node process (nothing warm) writes the same plan', () => {
     const json = path.join(dir, 'process.json');
-    execFileSync(process.execPath, [path.join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs'), path.join(root, 'src', 'cli', 'index.ts'), 'plan', demoFile, '--out', json], {
+    execFileSync(process.execPath, [path.join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs'), path.join(root, 'src', 'cli', 'index.ts'), 'plan', demoFile, '--out', json, '--replace'], {
       cwd: root,
       stdio: 'pipe',
     });

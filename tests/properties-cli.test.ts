@@ -23,7 +23,7 @@
  * files, missing files, wrong extensions, earlier outputs read back) and
  * writes its outputs only there.
  */
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'fs';
 import { tmpdir } from 'os';
 import path from 'path';
 import fc from 'fast-check';
@@ -504,7 +504,11 @@ const tableGen = fc.record({
   rows: fc.array(tableRowGen, { minLength: 1, maxLength: PLAN_ROWS_MAX }),
   extraColumn: fc.boolean(),
   bytes: fc.uint8Array({ maxLength: 64 }),
-  outKind: fc.constantFrom('none', 'none', 'csv', 'csv', 'json', 'json', 'xlsx', 'txt', 'no dir', 'no value'),
+  outKind: fc.oneof(
+    { weight: 10, arbitrary: fc.constantFrom('none', 'none', 'csv', 'csv', 'json', 'json', 'xlsx', 'txt', 'no dir', 'no value') },
+    { weight: 1, arbitrary: fc.constantFrom('the table itself', 'existing file') },
+  ),
+  replace: fc.oneof({ weight: 4, arbitrary: fc.constant(false) }, { weight: 1, arbitrary: fc.constant(true) }),
   json: fc.boolean(),
   mutations: fc.oneof(
     { weight: 4, arbitrary: fc.constant<Mutation[]>([]) },
@@ -683,14 +687,28 @@ describe('property: hush plan exits 0, or 1 with one line per failed row, or 2 w
             ? null
             : t.outKind === 'no dir'
               ? path.join(dir, 'no-such-dir', `o${n}.csv`)
-              : path.join(dir, `o${n}.${t.outKind}`);
+              : t.outKind === 'the table itself'
+                ? file
+                : t.outKind === 'existing file'
+                  ? path.join(dir, `o${n}.csv`)
+                  : path.join(dir, `o${n}.${t.outKind}`);
+        // A file the user wrote, which only --replace may overwrite.
+        const sentinel = `kept,as typed\r\n${n},x\r\n`;
+        if (t.outKind === 'existing file') writeFileSync(outFile!, sentinel);
+        const before = existsSync(file) && !statSync(file).isDirectory() ? readFileSync(file) : null;
         const pairs: Pair[] = [];
         if (outFile !== null) pairs.push(['--out', outFile]);
         if (t.outKind === 'no value') pairs.push(['--out', null]);
+        if (t.replace) pairs.push(['--replace', null]);
         if (t.json) pairs.push(['--json', null]);
         const argv = ['plan', file, ...tokens(pairs, t.mutations)];
         const c = await run(argv);
-        const written = c.code !== 2 && outFile !== null && !outFile.endsWith('.txt') ? outFile : null;
+        const where = `hush ${show(argv)} → ${c.code}, err ${JSON.stringify(c.err).slice(0, 300)}`;
+        // The project table is never written, whatever the arguments.
+        if (before !== null) expect(readFileSync(file).equals(before), `${where}: the project table changed`).toBe(true);
+        if (t.outKind === 'the table itself' && !argv.includes('--help') && !argv.includes('-h')) expect(c.code, where).toBe(2);
+        if (t.outKind === 'existing file' && !argv.includes('--replace')) expect(readFileSync(outFile!, 'utf8'), `${where}: an existing file was overwritten without --replace`).toBe(sentinel);
+        const written = c.code !== 2 && outFile !== null && !outFile.endsWith('.txt') && outFile !== file ? outFile : null;
         checkPlanCall(argv, typed, written, c);
       }),
       params(PLAN_RUNS),

@@ -1,3 +1,5 @@
+import { statSync } from 'fs';
+import * as path from 'path';
 import { isHushInputError } from '../plan/steps';
 import { INPUT_NAMES, OUTPUT_NAMES, errorToRow, headerName, planRow, planToRow, rowFromTable, type PlanCell } from '../plan';
 import { isBlank } from '../plan/units';
@@ -6,7 +8,28 @@ import { parseArgs, stringOption, UsageError } from './args';
 import { fmt, oneLine, processIO, type CommandIO } from './io';
 
 export const planUsage =
-  'hush plan TABLE.csv|TABLE.xlsx [--out PLAN.xlsx|PLAN.csv|PLAN.json] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts)';
+  'hush plan TABLE.csv|TABLE.xlsx [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; the table itself is never written; an existing --out file is replaced only with --replace)';
+
+/** Device and inode of an existing file, or null. */
+function identity(file: string): string | null {
+  try {
+    const s = statSync(file);
+    return `${s.dev}:${s.ino}`;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Refuses an --out that would overwrite what the user typed: the project table
+ * itself (by path or by being the same file), or any existing file unless
+ * --replace is given.
+ */
+function checkOut(table: string, out: string, replace: boolean): void {
+  const same = path.resolve(table) === path.resolve(out) || (identity(out) !== null && identity(out) === identity(table));
+  if (same) throw new UsageError(`--out ${out} is the project table itself; write the plan to another file so the table stays as typed`);
+  if (!replace && identity(out) !== null) throw new UsageError(`--out ${out} already exists; give --replace to overwrite it, or choose another name`);
+}
 
 function progress(io: CommandIO): ((done: number, total: number) => void) | null {
   const tty = io === processIO ? Boolean(process.stderr.isTTY) : io.isTTY;
@@ -29,13 +52,15 @@ function num(v: PlanCell, scale = 1): string {
 
 /** `hush plan`: plans every row of a project table and writes the table back with the outputs added. */
 export async function planCommand(argv: string[], io: CommandIO): Promise<number> {
-  const args = parseArgs(argv, { out: {}, json: { flag: true } });
+  const args = parseArgs(argv, { out: {}, json: { flag: true }, replace: { flag: true } });
   if (args.positional.length !== 1) throw new UsageError(`give one project table (.csv or .xlsx)${args.positional.length ? `, got ${args.positional.length} arguments` : ''}`);
   const file = args.positional[0];
   const fmtIn = tableFormat(file);
   if (fmtIn !== 'csv' && fmtIn !== 'xlsx') throw new UsageError(`${file}: the project table must be a .csv or .xlsx file`);
   const out = stringOption(args, 'out');
   if (out !== undefined && tableFormat(out) === null) throw new UsageError(`--out ${out}: write the plan as .xlsx, .csv or .json`);
+  if (out === undefined && args.options.has('replace')) throw new UsageError('--replace only applies with --out');
+  if (out !== undefined) checkOut(file, out, args.options.has('replace'));
 
   let table: Table;
   try {
@@ -47,8 +72,10 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   const names = table.header.map(headerName);
   const known = new Set([...INPUT_NAMES, ...OUTPUT_NAMES, 'remark']);
   const unknown = table.header.filter((h, k) => !isBlank(h) && !known.has(names[k]));
-  if (unknown.length) io.err(`hush plan: columns kept as they are (not plan fields): ${unknown.map((h) => JSON.stringify(String(h))).join(', ')}`);
-  if (!names.includes('band_short')) io.err('hush plan: the table has no band_short column; every row will fail');
+  // Notes are printed once the plan is written, so a run that ends in an error (exit 2) prints that error alone.
+  const notes: string[] = [];
+  if (unknown.length) notes.push(`hush plan: columns kept as they are (not plan fields): ${unknown.map((h) => JSON.stringify(String(h))).join(', ')}`);
+  if (!names.includes('band_short')) notes.push('hush plan: the table has no band_short column; every row will fail');
 
   const bar = progress(io);
   const planned: PlannedRow[] = [];
@@ -88,6 +115,16 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     if (bar) bar(i + 1, total);
   });
 
+  if (out !== undefined) {
+    try {
+      await writeTable(out, table.header, planned);
+    } catch (e) {
+      io.err(`hush plan: cannot write ${out}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
+      return 2;
+    }
+  }
+  for (const n of notes) io.err(n);
+
   if (args.options.has('json')) {
     io.out(
       JSON.stringify(
@@ -108,15 +145,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     io.out(`${summary.length - failures} planned, ${failures} failed; runtime and cost are planning estimates (check convergence with a thicker absorber)`);
   }
 
-  if (out !== undefined) {
-    try {
-      await writeTable(out, table.header, planned);
-    } catch (e) {
-      io.err(`hush plan: cannot write ${out}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
-      return 2;
-    }
-    if (!args.options.has('json')) io.out(`wrote ${out}`);
-  }
+  if (out !== undefined && !args.options.has('json')) io.out(`wrote ${out}`);
   for (const [i, r] of planned.entries()) {
     if (r.failed && r.outputs) io.err(`hush plan: row ${i + 2}: ${oneLine(String(r.outputs[OUTPUT_NAMES.indexOf('notes')]).replace(/^error: /, ''))}`);
   }

@@ -112,6 +112,20 @@ export const ESTIMATE_NOTE =
 /** Writes the planned table to `file` (.csv, .xlsx or .json). */
 export async function writeTable(file: string, header: readonly FieldValue[], rows: readonly PlannedRow[]): Promise<void> {
   const format = tableFormat(file);
+  if (format === null) throw new HushInputError('out', `${file}: the plan can be written as .xlsx, .csv or .json`, 'value');
+  // Written beside the target and renamed over it, so a failed write leaves
+  // no half-written file (and an existing one as it was).
+  const temp = path.join(path.dirname(file), `.${path.basename(file)}.${process.pid}.${Date.now()}.tmp`);
+  try {
+    await writePlanFile(temp, format, header, rows);
+    await fs.rename(temp, file);
+  } catch (e) {
+    await fs.rm(temp, { force: true }).catch(() => undefined);
+    throw e;
+  }
+}
+
+async function writePlanFile(file: string, format: TableFormat, header: readonly FieldValue[], rows: readonly PlannedRow[]): Promise<void> {
   const keep = keptColumns(header);
   const outHeader = OUTPUT_COLUMNS.map(outputHeaderText);
   if (format === 'csv') {
@@ -131,7 +145,6 @@ export async function writeTable(file: string, header: readonly FieldValue[], ro
     await fs.writeFile(file, JSON.stringify({ model_version: MODEL_VERSION, note: ESTIMATE_NOTE, rows: list }, null, 2) + '\n', 'utf8');
     return;
   }
-  if (format !== 'xlsx') throw new HushInputError('out', `${file}: the plan can be written as .xlsx, .csv or .json`, 'value');
   const wb = new ExcelJS.Workbook();
   wb.creator = 'Hush';
   const ws = wb.addWorksheet('plan', { views: [{ state: 'frozen', xSplit: 1, ySplit: 1 }] });
