@@ -114,10 +114,35 @@ describe('planRow: budget → design → cost', () => {
   it('warnings: resolution below common practice, absorber too close, grazing angles', () => {
     const p = planRow({ ...ring, cell: '50 nm', gap: 0, angle_max: 70, q: '' });
     const w = p.warnings.join('\n');
-    // 1540 nm / (3.48 · 50 nm) = 8.85 cells per wavelength < 10 (common practice).
-    expect(w).toMatch(/resolution: 8\.9 cells per wavelength in the densest material \(index 3\.48\)/);
+    // 1540 nm / (3.48 · 50 nm) = 8.851 cells per wavelength < 10 (common practice), shown rounded down.
+    expect(w).toMatch(/resolution: 8\.8 cells per wavelength in the densest material \(index 3\.48\)/);
     expect(w).toMatch(/absorber close to the structure: gap 0 cells/);
     expect(w).toMatch(/grazing incidence: at 70°/);
+  });
+
+  it('a shortfall is never shown as the threshold itself: 9.99 cells per wavelength reads 9.9', () => {
+    // 30 GHz in vacuum: λ = 9.993 mm; 1 mm cells give 9.993 cells per wavelength (derived), below 10 (common practice).
+    const w = planRow({ dimensions: 1, band_short: '30 GHz', cell: '1 mm', cells_x: 100, intensity_error: '1%' }).warnings.join('\n');
+    expect(w).toMatch(/resolution: 9\.9 cells per wavelength/);
+  });
+
+  it('inputs that other inputs leave unused are named in the notes, not dropped silently', () => {
+    const one = planRow({ ...ring, q: '', duration: '1 ps', ring_target: 1e-4, efficiency: 0.9, latency: '2 us' }).warnings;
+    expect(one).toContain('ring_target is not used: they set the ring-down length, which needs q');
+    expect(one).toContain('efficiency and latency are not used: they apply to runs on several nodes (nodes is 1)');
+    const many = planRow({ ...ring, nodes: 4, efficiency: 0.8, bandwidth: '10 GB/s' });
+    expect(many.warnings).toContain(
+      'bandwidth is not used: the stated efficiency sets the parallel runtime (halo_per_step is still reported); clear efficiency to model the halo exchange',
+    );
+    expect(planRow(ring).warnings.filter((w) => /not used/.test(w))).toEqual([]);
+  });
+
+  it('parallel_efficiency is blank when the halo model has no runtime to derive it from', () => {
+    const noRun = planRow({ ...ring, q: '', nodes: 4, bandwidth: '10 GB/s', throughput: '' });
+    expect(value(noRun, 'parallel_efficiency')).toBeNull();
+    const run = planRow({ ...ring, nodes: 4, bandwidth: '10 GB/s' });
+    expect(value(run, 'parallel_efficiency')).toBeGreaterThan(0);
+    expect(value(run, 'parallel_efficiency')).toBeLessThan(1);
   });
 
   it('a blank gap means the size includes the clearance: no gap is added and no gap warning is given (a typed 0 is warned about)', () => {

@@ -58,6 +58,8 @@ export interface PlanInputs {
   /** FACE_NAMES order, 2·dimensions entries. */
   faces: FaceKind[];
   gapCells: number;
+  /** Notes naming inputs that the row's other inputs leave unused (never dropped silently). */
+  unusedNotes: string[];
   /** False when the gap cell was blank: the structure size is taken to include its clearance, and no gap warning is given. */
   gapGiven: boolean;
   angleMaxDeg: number;
@@ -259,8 +261,18 @@ export function planInputs(row: ProjectRow): PlanInputs {
   const absorberFactor = optional(row, 'absorber_factor', parseNumber) ?? 1.5;
   const fieldsPerCell = optional(row, 'fields_per_cell', parseNumber);
   const materialPerCell = optional(row, 'material_per_cell', parseNumber);
+  // Inputs that this row's other inputs make unused are named, never dropped silently.
+  const given = (name: string) => get(row, name) !== undefined;
+  const unusedNotes: string[] = [];
+  const unused = (names: string[], why: string) => {
+    const n = names.filter(given);
+    if (n.length) unusedNotes.push(`${n.length > 1 ? `${n.slice(0, -1).join(', ')} and ${n[n.length - 1]} are` : `${n[0]} is`} not used: ${why}`);
+  };
+  if (q === null) unused(['ring_target', 'ring_frequency'], 'they set the ring-down length, which needs q');
+  if (nodes === 1) unused(['efficiency', 'decomposition', 'bandwidth', 'latency'], 'they apply to runs on several nodes (nodes is 1)');
+  else if (efficiency !== null) unused(['bandwidth', 'latency'], 'the stated efficiency sets the parallel runtime (halo_per_step is still reported); clear efficiency to model the halo exchange');
   return {
-    study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells, gapGiven,
+    study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells, gapGiven, unusedNotes,
     angleMaxDeg, intensityError, coupling, facesSeen, phase, share, duration, passes, q, ringTarget, ringFrequency,
     throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, absorberFactor,
     fieldsPerCell, materialPerCell,
@@ -339,15 +351,17 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     latency: i.latency,
   });
 
+  // Values below a threshold are shown rounded down, so a shortfall never reads as the threshold itself.
+  const down = (x: number, digits: number) => (Math.floor(x * 10 ** digits) / 10 ** digits).toFixed(digits);
   if (ppwDensest < MIN_ADVISED_PPW) {
     warnings.push(
-      `resolution: ${ppwDensest.toFixed(1)} cells per wavelength in the densest material (index ${i.indexMax}) at the short end; common practice is at least ${MIN_ADVISED_PPW}`,
+      `resolution: ${down(ppwDensest, 1)} cells per wavelength in the densest material (index ${i.indexMax}) at the short end; common practice is at least ${MIN_ADVISED_PPW}`,
     );
   }
   const gapWavelengths = (i.gapCells * i.cell * i.index) / i.wavelengthLong;
   if (i.gapGiven && gapWavelengths < MIN_ADVISED_GAP_WAVELENGTHS) {
     warnings.push(
-      `absorber close to the structure: gap ${i.gapCells} cells = ${gapWavelengths.toFixed(2)} wavelengths (longest, in the background); common practice keeps at least ${MIN_ADVISED_GAP_WAVELENGTHS} so near fields decay before the absorber`,
+      `absorber close to the structure: gap ${i.gapCells} cells = ${down(gapWavelengths, 2)} wavelengths (longest, in the background); common practice keeps at least ${MIN_ADVISED_GAP_WAVELENGTHS} so near fields decay before the absorber`,
     );
   }
   if (i.angleMaxDeg > GRAZING_WARNING_DEG) {
@@ -356,6 +370,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
   if (!hasRun) warnings.push('no run length: give duration, passes or q for steps, runtime and cost');
   else if (i.throughput === null) warnings.push('no throughput: give cell updates per second for runtime and cost');
   else if (i.pricePerHour === null) warnings.push('no price_per_hour: runtime only, no cost');
+  warnings.push(...i.unusedNotes);
   if (cost.parallel.model === 'halo exchange' && cost.parallel.efficiency < 0.5) {
     warnings.push(`halo exchange dominates: parallel efficiency ${cost.parallel.efficiency.toFixed(2)} on ${i.nodes} nodes; fewer nodes or a block decomposition may be cheaper`);
   }
@@ -436,7 +451,8 @@ export function planToRow(plan: Plan): PlanCell[] {
     absorber_share: rt ? rt.absorberSharePercent : null,
     cost: rt ? rt.cost : null,
     halo_per_step: c.parallel.nodes > 1 ? c.parallel.haloBytesPerStep / 1e6 : null,
-    parallel_efficiency: c.parallel.efficiency,
+    // Derived from the halo model only with a runtime; without one there is no efficiency to show.
+    parallel_efficiency: c.parallel.model === 'halo exchange' && c.runtime === null ? null : c.parallel.efficiency,
     notes: plan.warnings.join('; '),
     model_version: plan.modelVersion,
   };
