@@ -62,16 +62,16 @@ interface FunctionMeta {
  */
 type ParamSpec = [string, string, boolean] | [string, string, boolean, 'matrix'];
 const budgetTail: ParamSpec[] = [
-  ['coupling', 'number', true],
+  ['coupling', 'any', true],
   ['faces', 'number', true],
   ['phase', 'string', true],
-  ['share', 'number', true],
+  ['share', 'any', true],
 ];
 const reflectionParams: ParamSpec[] = [
   ['layers', 'number', false],
   ['order', 'number', false],
   ['ppw', 'number', false],
-  ['angle_deg', 'number', true],
+  ['angle_deg', 'any', true],
   ['strength', 'number', true],
   ['kappa_max', 'number', true],
   ['alpha_max_norm', 'number', true],
@@ -97,17 +97,22 @@ const tableParams: ParamSpec[] = [
   ['row', 'any', false, 'matrix'],
 ];
 const expected: Record<string, { params: ParamSpec[]; result: string; matrix: boolean }> = {
-  NEEDED_REFLECTION: { params: [['intensity_error', 'number', false], ...budgetTail], result: 'number', matrix: false },
-  ERROR_FROM_REFLECTION: { params: [['amplitude', 'number', false], ...budgetTail], result: 'number', matrix: false },
+  NEEDED_REFLECTION: { params: [['intensity_error', 'any', false], ...budgetTail], result: 'number', matrix: false },
+  ERROR_FROM_REFLECTION: { params: [['amplitude', 'any', false], ...budgetTail], result: 'number', matrix: false },
   REFLECTION: { params: reflectionParams, result: 'number', matrix: false },
   REFLECTION_CONTINUOUS: { params: reflectionParams, result: 'number', matrix: false },
+  REFLECTION_TABLE: {
+    params: [reflectionParams[0], reflectionParams[1], ['ppw_list', 'any', false, 'matrix'], ['angles', 'any', true, 'matrix'], ...reflectionParams.slice(4)],
+    result: 'number',
+    matrix: true,
+  },
   RIPPLE: {
-    params: [['amplitude', 'number', false], ['distance_m', 'number', false], ['group_index', 'number', true], ['coupling', 'number', true]],
+    params: [['amplitude', 'any', false], ['distance', 'any', false], ['group_index', 'number', true], ['coupling', 'any', true]],
     result: 'number',
     matrix: true,
   },
   RIPPLE_SOURCE: {
-    params: [['peak_to_peak', 'number', false], ['period_hz', 'number', false], ['group_index', 'number', true], ['coupling', 'number', true]],
+    params: [['peak_to_peak', 'any', false], ['period', 'any', false], ['group_index', 'number', true], ['coupling', 'any', true]],
     result: 'number',
     matrix: true,
   },

@@ -21,6 +21,7 @@ import {
   neededReflection,
   reflectionContinuous,
   reflectionExact,
+  reflectionTable,
   ripple,
   rippleSource,
 } from '../src/functions/functions';
@@ -134,7 +135,7 @@ describe('HUSH.NEEDED_REFLECTION', () => {
   });
 
   it('text, TRUE and ranges where one value belongs are #VALUE!', () => {
-    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: 'intensity error must be a number (got "one percent")' });
+    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: 'intensity error must be a number or a percentage such as "1%" (got "one percent")' });
     expect(errorOf(neededReflection, '0x10').code).toBe('#VALUE!');
     expect(errorOf(neededReflection, true)).toEqual({ code: '#VALUE!', message: 'intensity error must be a number (got TRUE)' });
     expect(errorOf(neededReflection, [[0.01, 0.02]])).toEqual({
@@ -227,6 +228,44 @@ describe('HUSH.REFLECTION and HUSH.REFLECTION_CONTINUOUS', () => {
       code: '#VALUE!',
       message: 'grading order must be a single value, not a range of 2×1 cells',
     });
+  });
+});
+
+describe('unit strings and percentages where a quantity has a unit', () => {
+  it('give the same results as the bare numbers in the argument\'s own unit', () => {
+    expect(neededReflection('1%')).toBe(neededReflection(0.01));
+    expect(neededReflection('1 %', '50%', 2, 'random', '80%')).toBe(neededReflection(0.01, 0.5, 2, 'random', 0.8));
+    expect(errorFromReflection('0.5%')).toBe(errorFromReflection(0.005));
+    expect(reflectionExact(8, 3, 40, '45 deg')).toBe(reflectionExact(8, 3, 40, 45));
+    expect(reflectionExact(8, 3, 40, `${Math.PI / 4} rad`)).toBeCloseTo(reflectionExact(8, 3, 40, 45), 15);
+    expect(ripple('0.1%', '10 cm')).toEqual(ripple(0.001, 0.1));
+    expect(ripple(0.001, '25 um', 1.5)).toEqual(ripple(0.001, 25e-6, 1.5));
+    expect(rippleSource('0.4%', '1.5 GHz')).toEqual(rippleSource(0.004, 1.5e9));
+  });
+
+  it('wrong units are #VALUE! naming the argument and what it takes', () => {
+    expect(errorOf(ripple, 0.001, '5 kg')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^distance must be a length/) });
+    expect(errorOf(rippleSource, 0.004, '3 m')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^ripple period must be a frequency/) });
+    expect(errorOf(reflectionExact, 8, 3, 40, '3 m')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^angle must be an angle/) });
+    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^intensity error must be a number or a percentage such as "1%"/) });
+  });
+});
+
+describe('HUSH.REFLECTION_TABLE', () => {
+  it('is HUSH.REFLECTION at every ppw (rows) and angle (columns) of the ranges (independent call per cell)', () => {
+    const t = reflectionTable(10, 3, [[20], [40], [80]], [[0, '30 deg', 60]], 1.2, 2);
+    expect(t.length).toBe(3);
+    [20, 40, 80].forEach((ppw, i) => [0, 30, 60].forEach((a, j) => expect(t[i][j]).toBe(reflectionExact(10, 3, ppw, a, 1.2, 2))));
+    // A row of ppw values reads the same as a column; blank cells are skipped; no angles means normal incidence.
+    expect(reflectionTable(10, 3, [[20, '', 40]])).toEqual([[reflectionExact(10, 3, 20)], [reflectionExact(10, 3, 40)]]);
+    expect(reflectionTable(10, 3, 20, null)).toEqual([[reflectionExact(10, 3, 20)]]);
+  });
+
+  it('refuses bad values and oversized ranges with the argument named', () => {
+    expect(errorOf(reflectionTable, 10, 3, [['x']])).toEqual({ code: '#VALUE!', message: 'cells per wavelength must be a number (got "x")' });
+    expect(errorOf(reflectionTable, 10, 3, [[]])).toEqual({ code: '#VALUE!', message: 'cells per wavelength needs at least one value' });
+    expect(errorOf(reflectionTable, 10, 3, [Array(501).fill(20)])).toEqual({ code: '#VALUE!', message: 'cells per wavelength takes at most 500 values (got 501)' });
+    expect(errorOf(reflectionTable, 10, 3, [[20]], [[0, 95]]).code).toBe('#NUM!');
   });
 });
 

@@ -103,7 +103,7 @@ afterAll(() => {
   console.log(`${lines.join('\n')}\nscheduler: ${st.tasks} tasks, longest task ${st.longestTaskMs.toFixed(1)} ms, longest slice ${st.longestSliceMs.toFixed(1)} ms`);
 });
 
-type Shape = 'number' | 'string' | { rows: 1; cols: number; cells: 'number' | 'mixed' | 'string' };
+type Shape = 'number' | 'string' | 'grid' | { rows: 1; cols: number; cells: 'number' | 'mixed' | 'string' };
 
 function expectShape(name: string, v: unknown, shape: Shape, args: unknown): void {
   const where = `${name}(${safeJson(args)}) → ${safeJson(v)}`;
@@ -113,6 +113,16 @@ function expectShape(name: string, v: unknown, shape: Shape, args: unknown): voi
   }
   if (shape === 'string') {
     expect(typeof v === 'string' && v.length > 0, where).toBe(true);
+    return;
+  }
+  if (shape === 'grid') {
+    // A non-empty rectangle of finite numbers.
+    expect(Array.isArray(v) && v.length > 0 && Array.isArray(v[0]) && v[0].length > 0, where).toBe(true);
+    const rows = v as unknown[][];
+    for (const row of rows) {
+      expect(Array.isArray(row) && row.length === rows[0].length, where).toBe(true);
+      for (const cell of row) expect(typeof cell === 'number' && Number.isFinite(cell), where).toBe(true);
+    }
     return;
   }
   expect(Array.isArray(v) && v.length === 1 && Array.isArray(v[0]) && v[0].length === shape.cols, where).toBe(true);
@@ -238,6 +248,24 @@ describe('property: synchronous worksheet functions return finite values or #VAL
       }),
       params,
     );
+  });
+
+  it(`HUSH.REFLECTION_TABLE over random ranges (${RUNS} calls)`, () => {
+    // Ranges of 1–4 × 1–4 cells (mixed with junk), in the ppw_list and angles slots of the REFLECTION arguments.
+    const range = (a: fc.Arbitrary<unknown>) => fc.array(fc.array(a, { minLength: 1, maxLength: 4 }), { minLength: 1, maxLength: 4 });
+    const mostly = (a: fc.Arbitrary<unknown>) => fc.oneof({ weight: 30, arbitrary: a }, { weight: 1, arbitrary: junkScalar });
+    const lists = fc.tuple(range(mostly(num(2, 200))), fc.oneof(blank, range(mostly(num(0, 89.9)))));
+    fc.assert(
+      fc.property(reflectionArgs, lists, (args, [ppws, angles]) => {
+        const a = args.slice();
+        a[2] = ppws;
+        a[3] = angles;
+        checkSync('reflectionTable', 'grid', a);
+      }),
+      params,
+    );
+    // A good share of the calls get through to the computation.
+    expect(tally('reflectionTable').values).toBeGreaterThan(RUNS * 0.1);
   });
 
   it(`HUSH.RIPPLE and HUSH.RIPPLE_SOURCE (${RUNS} calls each)`, () => {

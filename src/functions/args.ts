@@ -17,7 +17,7 @@
  * Every refusal is a HushInputError of kind 'value' naming the argument.
  */
 import { HushInputError, quote } from '../plan/steps';
-import { parseAngle } from '../plan/units';
+import { parseAngle, parseFrequency, parseLength, parseNumber } from '../plan/units';
 
 /** True for the ways Excel says "no value": null, undefined, "" and blank text. */
 export function isBlank(value: unknown): boolean {
@@ -132,4 +132,67 @@ export function optionalAngle(field: string, value: unknown, fallback?: number):
   if (isBlank(v)) return fallback;
   if (typeof v === 'string' && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v.trim())) return parseAngle(field, v);
   return toNumber(field, v);
+}
+
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * A quantity from a number (in the argument's own unit) or from text with a
+ * unit, read by the plan API's unit parser (`parse`, whose bare unit is the
+ * argument's unit); `fallback` when omitted or blank, an error when required.
+ */
+function quantity(field: string, value: unknown, parse: (field: string, v: string | number) => number, required: boolean, fallback?: number): number | undefined {
+  const v = singleValue(field, value);
+  if (isBlank(v)) {
+    if (required) throw new HushInputError(field, `${field} is required`, 'value');
+    return fallback;
+  }
+  if (typeof v === 'string' && !DECIMAL.test(v.trim())) return parse(field, v);
+  return toNumber(field, v);
+}
+
+/** A required length in metres: a number (metres) or text with a unit ("10 cm", "5 um"). */
+export function requiredLength(field: string, value: unknown): number {
+  return quantity(field, value, (f, v) => parseLength(f, v, 'm'), true) as number;
+}
+
+/** A required frequency in Hz: a number (Hz) or text with a unit ("1.5 GHz"). */
+export function requiredFrequency(field: string, value: unknown): number {
+  return quantity(field, value, (f, v) => parseFrequency(f, v, 'Hz'), true) as number;
+}
+
+/** A number or a percentage as text, read by the plan API's parser; refusals say both forms are allowed. */
+function fraction(field: string, v: string | number): number {
+  try {
+    return parseNumber(field, v);
+  } catch {
+    throw new HushInputError(field, `${field} must be a number or a percentage such as "1%" (got ${describe(v)})`, 'value');
+  }
+}
+
+/** A required plain number, or a percentage as text ("1%" is 0.01). */
+export function requiredFraction(field: string, value: unknown): number {
+  return quantity(field, value, fraction, true) as number;
+}
+
+/** An optional plain number, or a percentage as text ("50%" is 0.5); `fallback` when omitted or blank. */
+export function optionalFraction(field: string, value: unknown, fallback?: number): number | undefined {
+  return quantity(field, value, fraction, false, fallback);
+}
+
+/**
+ * Every value of a range (row by row, blanks skipped) or a single value, each
+ * read by `one`; for arguments where a list is natural (angles, cells per
+ * wavelength). At most `max` values.
+ */
+export function valueList<T>(field: string, value: unknown, one: (field: string, v: unknown) => T, max: number): T[] {
+  const cells: unknown[] = [];
+  const walk = (v: unknown): void => {
+    if (Array.isArray(v)) v.forEach(walk);
+    else if (!isBlank(v)) cells.push(v);
+  };
+  walk(value);
+  if (cells.length === 0) throw new HushInputError(field, `${field} needs at least one value`, 'value');
+  if (cells.length > max) throw new HushInputError(field, `${field} takes at most ${max} values (got ${cells.length})`, 'value');
+  return cells.map((c) => one(field, c));
 }

@@ -33,7 +33,7 @@ import {
   type WaveSpec,
 } from '../plan/steps';
 import { OUTPUT_NAMES, planHeaderText, planToRow, type Plan } from '../plan';
-import { numberListOrText, optionalAngle, optionalChoice, optionalNumber, requiredNumber } from './args';
+import { numberListOrText, optionalAngle, optionalChoice, optionalFraction, optionalNumber, requiredFraction, requiredFrequency, requiredLength, requiredNumber, valueList } from './args';
 import { DESIGN_COLUMNS } from './columns';
 import { worksheet } from './errors';
 import { asWorksheet, designOf, planOf } from './plans';
@@ -43,10 +43,10 @@ const PHASES: readonly PhaseModel[] = ['worst', 'random'];
 
 function budgetOptions(coupling: unknown, faces: unknown, phase: unknown, share: unknown): BudgetOptions {
   return {
-    coupling: optionalNumber('coupling', coupling),
+    coupling: optionalFraction('coupling', coupling),
     faces: optionalNumber('faces', faces),
     phase: optionalChoice('phase', phase, PHASES, 'worst'),
-    share: optionalNumber('share', share),
+    share: optionalFraction('share', share),
   };
 }
 
@@ -54,24 +54,25 @@ function budgetOptions(coupling: unknown, faces: unknown, phase: unknown, share:
  * Required amplitude reflection |r| per absorbing face so that the relative intensity error at a monitor stays within the tolerance (worst case: |r| = (√(1+ε) − 1)/c for one face).
  * Example: =HUSH.NEEDED_REFLECTION(0.01) → 0.00498756211208903
  * Example: =HUSH.NEEDED_REFLECTION(0.01, 1, 2, "random") → 0.00499993750273421
+ * Example: =HUSH.NEEDED_REFLECTION("1%", "100%") → 0.00498756211208903
  * @customfunction NEEDED_REFLECTION
- * @param intensity_error Tolerated relative intensity error ε (0.01 for 1 %), greater than 0 and at most 1.
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1. Default 1.
+ * @param intensity_error Tolerated relative intensity error ε, greater than 0 and at most 1: a number (0.01) or a percentage as text ("1%").
+ * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
  * @param [faces] Number of absorbing faces whose echoes reach the monitor, 1 to 6. Default 1.
  * @param [phase] "worst" (echoes add in phase) or "random" (RMS error, echoes add in quadrature). Default "worst".
- * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1. Default 1.
+ * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1 (a number or "50%"). Default 1.
  * @returns Amplitude reflection |r| each face may have.
  */
 export function neededReflection(
-  intensity_error: number,
-  coupling?: number,
+  intensity_error: any,
+  coupling?: any,
   faces?: number,
   phase?: string,
-  share?: number,
+  share?: any,
 ): number {
   return worksheet(() =>
     requiredAmplitude({
-      intensityError: requiredNumber('intensity error', intensity_error),
+      intensityError: requiredFraction('intensity error', intensity_error),
       ...budgetOptions(coupling, faces, phase, share),
     }),
   );
@@ -82,22 +83,22 @@ export function neededReflection(
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.005) → 0.010025
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.001, , , "random") → 0.00141421391592644
  * @customfunction ERROR_FROM_REFLECTION
- * @param amplitude Amplitude reflection |r| of one face, 0 ≤ |r| < 1 (not the power reflection |r|²).
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1. Default 1.
+ * @param amplitude Amplitude reflection |r| of one face, 0 ≤ |r| < 1 (not the power reflection |r|²); a number or a percentage as text ("0.5%").
+ * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
  * @param [faces] Number of absorbing faces whose echoes reach the monitor, 1 to 6. Default 1.
  * @param [phase] "worst" (echoes add in phase) or "random" (RMS error, echoes add in quadrature). Default "worst".
- * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1; the result is the whole budget this uses up. Default 1.
+ * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1 (a number or "50%"); the result is the whole budget this uses up. Default 1.
  * @returns Relative intensity error ε (0.01 means 1 %).
  */
 export function errorFromReflection(
-  amplitude: number,
-  coupling?: number,
+  amplitude: any,
+  coupling?: any,
   faces?: number,
   phase?: string,
-  share?: number,
+  share?: any,
 ): number {
   return worksheet(() =>
-    intensityErrorFromAmplitude(requiredNumber('amplitude reflection', amplitude), budgetOptions(coupling, faces, phase, share)),
+    intensityErrorFromAmplitude(requiredFraction('amplitude reflection', amplitude), budgetOptions(coupling, faces, phase, share)),
   );
 }
 
@@ -124,7 +125,7 @@ function absorberAndWave(
   };
   const wave: WaveSpec = {
     ppw: requiredNumber('cells per wavelength', ppw),
-    angleDeg: optionalNumber('angle', angle_deg),
+    angleDeg: optionalAngle('angle', angle_deg),
     courant: optionalNumber('Courant number', courant),
     index: optionalNumber('background index', index),
     dimensions: optionalNumber('dimensions', dimensions),
@@ -136,11 +137,12 @@ function absorberAndWave(
  * Exact amplitude reflection |r| of a graded CPML absorber as the Yee grid sees it (discrete theory, backed by a perfect conductor), at one frequency and angle.
  * Example: =HUSH.REFLECTION(10, 3, 20) → 0.0000272370009192314
  * Example: =HUSH.REFLECTION(8, 3, 40, 45, 1, 5, 0.05) → 0.0000716646196867022
+ * Example: =HUSH.REFLECTION(8, 3, 40, "45 deg", 1, 5, 0.05) → 0.0000716646196867022
  * @customfunction REFLECTION
  * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
  * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
  * @param ppw Cells per wavelength in the background medium at this frequency.
- * @param [angle_deg] Angle of incidence in degrees, 0 ≤ θ < 90. Default 0.
+ * @param [angle_deg] Angle of incidence, 0 ≤ θ < 90 degrees: a number (degrees) or text with a unit ("0.5 rad"). Default 0.
  * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
  * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
@@ -154,7 +156,7 @@ export function reflectionExact(
   layers: number,
   order: number,
   ppw: number,
-  angle_deg?: number,
+  angle_deg?: any,
   strength?: number,
   kappa_max?: number,
   alpha_max_norm?: number,
@@ -176,7 +178,7 @@ export function reflectionExact(
  * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
  * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
  * @param ppw Cells per wavelength in the background medium at this frequency.
- * @param [angle_deg] Angle of incidence in degrees, 0 ≤ θ < 90. Default 0.
+ * @param [angle_deg] Angle of incidence, 0 ≤ θ < 90 degrees: a number (degrees) or text with a unit ("0.5 rad"). Default 0.
  * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
  * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
@@ -190,7 +192,7 @@ export function reflectionContinuous(
   layers: number,
   order: number,
   ppw: number,
-  angle_deg?: number,
+  angle_deg?: any,
   strength?: number,
   kappa_max?: number,
   alpha_max_norm?: number,
@@ -205,24 +207,79 @@ export function reflectionContinuous(
   });
 }
 
+/** Most values along each side of HUSH.REFLECTION_TABLE, so one call stays a few milliseconds. */
+const TABLE_SIDE_MAX = 500;
+
+/**
+ * Exact reflection |r| of one design over lists of cells per wavelength and angles: spills a table with one row per ppw value and one column per angle (ranges or single values; blank cells skipped).
+ * Example: =HUSH.REFLECTION_TABLE(10, 3, {20; 40}, {0, 45}) → {0.0000272370009192314, 0.0000184095775469776; 0.0000258712214847077, 0.000017881678895969}
+ * @customfunction REFLECTION_TABLE
+ * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
+ * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
+ * @param ppw_list Cells per wavelength in the background medium: a range or a single value, at most 500 values; one result row each.
+ * @param [angles] Angles of incidence, 0 ≤ θ < 90 degrees: a range or a single value, numbers (degrees) or text with a unit ("0.5 rad"), at most 500 values; one result column each. Default 0.
+ * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
+ * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
+ * @param [alpha_order] Order of the reversed α grading. Default 1.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
+ * @param [index] Background refractive index n, 1 to 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
+ * @returns Amplitude reflection |r|, rows by cells per wavelength, columns by angle.
+ */
+export function reflectionTable(
+  layers: number,
+  order: number,
+  ppw_list: any[][],
+  angles?: any[][],
+  strength?: number,
+  kappa_max?: number,
+  alpha_max_norm?: number,
+  alpha_order?: number,
+  courant?: number,
+  index?: number,
+  dimensions?: number,
+): number[][] {
+  return worksheet(() => {
+    const ppws = valueList('cells per wavelength', ppw_list, requiredNumber, TABLE_SIDE_MAX);
+    const angleList = isOmitted(angles) ? [0] : valueList('angles', angles, (f, v) => optionalAngle(f, v) as number, TABLE_SIDE_MAX);
+    return ppws.map((ppw) =>
+      angleList.map((angle) => {
+        const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+        return reflection(design, wave).amplitude;
+      }),
+    );
+  });
+}
+
+/** True when an optional range argument was left out (null/undefined) or is one blank cell. */
+function isOmitted(v: unknown): boolean {
+  if (v === null || v === undefined) return true;
+  const flat: unknown[] = [];
+  const walk = (x: unknown): void => (Array.isArray(x) ? x.forEach(walk) : void flat.push(x));
+  walk(v);
+  return flat.every((x) => x === null || x === undefined || (typeof x === 'string' && x.trim() === ''));
+}
+
 /**
  * Spectral ripple caused by a reflection: spills a row {peak-to-peak relative intensity swing, ripple period in Hz} (swing 4c|r|, period c₀/(2·n_g·L)).
  * Example: =HUSH.RIPPLE(0.001, 0.1) → {0.004, 1498962290}
  * Example: =HUSH.RIPPLE(0.001, 0.1, 1.5, 0.5) → {0.002, 999308193.333333}
+ * Example: =HUSH.RIPPLE("0.1%", "10 cm") → {0.004, 1498962290}
  * @customfunction RIPPLE
- * @param amplitude Amplitude reflection |r| of the boundary, 0 ≤ |r| < 1.
- * @param distance_m Distance L in metres between the boundary and the other reflector (for example the monitor or the device).
+ * @param amplitude Amplitude reflection |r| of the boundary, 0 ≤ |r| < 1; a number or a percentage as text ("0.1%").
+ * @param distance Distance L between the boundary and the other reflector (for example the monitor or the device): a number in metres or text with a unit ("10 cm", "25 um").
  * @param [group_index] Group index n_g of the medium in between, 1 to 100. Default 1.
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1. Default 1.
+ * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
  * @returns One row: peak-to-peak swing (relative), period (Hz).
  */
-export function ripple(amplitude: number, distance_m: number, group_index?: number, coupling?: number): number[][] {
+export function ripple(amplitude: any, distance: any, group_index?: number, coupling?: any): number[][] {
   return worksheet(() => {
     const r = rippleFromReflection(
-      requiredNumber('amplitude reflection', amplitude),
-      requiredNumber('distance', distance_m),
+      requiredFraction('amplitude reflection', amplitude),
+      requiredLength('distance', distance),
       optionalNumber('group index', group_index, 1),
-      optionalNumber('coupling', coupling, 1),
+      optionalFraction('coupling', coupling, 1),
     );
     return [[r.peakToPeak, r.periodHz]];
   });
@@ -231,20 +288,21 @@ export function ripple(amplitude: number, distance_m: number, group_index?: numb
 /**
  * The reflection behind an observed spectral ripple: spills a row {implied amplitude reflection |r|, implied distance in metres between the reflecting pair}.
  * Example: =HUSH.RIPPLE_SOURCE(0.004, 1.5E9) → {0.001, 0.0999308193333333}
+ * Example: =HUSH.RIPPLE_SOURCE("0.4%", "1.5 GHz") → {0.001, 0.0999308193333333}
  * @customfunction RIPPLE_SOURCE
- * @param peak_to_peak Observed peak-to-peak relative intensity swing, greater than 0 and less than 4.
- * @param period_hz Observed ripple period in frequency, Hz.
+ * @param peak_to_peak Observed peak-to-peak relative intensity swing, greater than 0 and less than 4; a number or a percentage as text ("0.4%").
+ * @param period Observed ripple period in frequency: a number in Hz or text with a unit ("1.5 GHz").
  * @param [group_index] Group index n_g of the medium in between, 1 to 100. Default 1.
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1. Default 1.
+ * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
  * @returns One row: amplitude reflection |r|, distance (m).
  */
-export function rippleSource(peak_to_peak: number, period_hz: number, group_index?: number, coupling?: number): number[][] {
+export function rippleSource(peak_to_peak: any, period: any, group_index?: number, coupling?: any): number[][] {
   return worksheet(() => {
     const s = reflectionFromRipple(
-      requiredNumber('ripple peak-to-peak', peak_to_peak),
-      requiredNumber('ripple period', period_hz),
+      requiredFraction('ripple peak-to-peak', peak_to_peak),
+      requiredFrequency('ripple period', period),
       optionalNumber('group index', group_index, 1),
-      optionalNumber('coupling', coupling, 1),
+      optionalFraction('coupling', coupling, 1),
     );
     return [[s.amplitude, s.distanceMetres]];
   });
