@@ -258,7 +258,7 @@ describe('HUSH.REFLECTION_TABLE', () => {
     [20, 40, 80].forEach((ppw, i) => [0, 30, 60].forEach((a, j) => expect(t[i][j]).toBe(reflectionExact(10, 3, ppw, a, 1.2, 2))));
     // A row of ppw values reads the same as a column; blank cells are skipped; no angles means normal incidence.
     expect(reflectionTable(10, 3, [[20, '', 40]])).toEqual([[reflectionExact(10, 3, 20)], [reflectionExact(10, 3, 40)]]);
-    expect(reflectionTable(10, 3, 20, null)).toEqual([[reflectionExact(10, 3, 20)]]);
+    expect(reflectionTable(10, 3, [[20]], null as unknown as undefined)).toEqual([[reflectionExact(10, 3, 20)]]);
   });
 
   it('refuses bad values and oversized ranges with the argument named', () => {

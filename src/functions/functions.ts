@@ -391,7 +391,7 @@ export function layers(
 
 /**
  * The thinnest absorber design as one spilled row: layers, grading order, strength σ_max/σ_opt, κ_max, α_max_norm, α order, worst |r| achieved (dense check), cells per wavelength and angle where it occurs, continuous-theory |r|. Headers: HUSH.DESIGN_HEADER().
- * Example: =HUSH.DESIGN(0.001, 20) → {4, 2, 0.937623545758167, 1, 0, 1, 0.000608146489079253, 20, 0, 0.0024767930196855}
+ * Example: =HUSH.DESIGN(0.001, 20) → {4, 2, 0.937639260920117, 1, 0, 1, 0.000608146415488971, 20, 0, 0.00247654392371049}
  * @customfunction DESIGN
  * @param target_amplitude Required amplitude reflection |r| per face, 0 < |r| < 1 (from HUSH.NEEDED_REFLECTION).
  * @param ppw_min Cells per wavelength in the background medium at the short-wavelength end of the band.
@@ -440,7 +440,7 @@ function planCells(plan: Plan): (number | string)[] {
 
 /**
  * Plans one study of a project table: required reflection, absorber design, grid, cells, memory, steps, runtime and cost, spilled as one row (headers: HUSH.PLAN_HEADER()). Runtime and cost are planning estimates from the row's throughput and price. Copy down a table: =HUSH.PLAN($A$1:$AM$1, A2:AM2).
- * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, 3, 4, 0.609862538969584, 0.00136383568212683, 0.0535392533275822, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
+ * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, 3, 4, 0.609875173686855, 0.00136380140418004, 0.0535360064500616, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
  * @customfunction PLAN
  * @param header The project table's header row: field names such as band_short, cell, intensity_error (units in brackets and other columns are ignored), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, as many cells as the header, e.g. A2:AM2. Numbers take each field's default unit; text may carry units ("1550 nm", "3 ps", "$2/h").

@@ -7,14 +7,18 @@
  * Search, for each allowed grading order m:
  *  1. sample the band uniformly in frequency and the angles uniformly in degree;
  *  2. for a layer count N, find the strength s = σ_max/σ_opt that minimises the
- *     worst sampled |r| (log scan, then golden-section refinement);
+ *     worst sampled |r| (a 20-point log scan, then golden-section refinement
+ *     from its best point and from its best other local minimum);
  *  3. find the smallest feasible N by galloping from the continuous-theory
  *     estimate N ≈ ln(1/R)/(1.6·cos θ_max), then bisection; N − 1 is always
  *     evaluated and found infeasible;
  *  4. check the answer on a grid 4× denser in frequency and angle that contains
  *     the search samples; if it fails there, re-optimise the strength on the
  *     dense grid, and if that fails too, step N up by a gallop (1, 2, 4, …
- *     layers) and bisect back to the first N that passes.
+ *     layers) and bisect back to the first N that passes. Passing the dense
+ *     grid includes the points between its samples: each of its local maxima
+ *     (above a quarter of the target) is climbed within one dense spacing, and
+ *     the highest value found is the design's reported worst.
  * So N − 1 always fails: on the search grid (a subset of the dense grid), or on
  * the dense grid at its own best strength.
  * The work of a search is counted (designWork()): the hardening tests bound it
@@ -108,7 +112,7 @@ const SEARCH_FREQUENCIES = 6;
 const SEARCH_ANGLES = 5;
 const DENSE_FACTOR = 4;
 const STRENGTH_MIN = 0.05;
-const SCAN_POINTS = 10;
+const SCAN_POINTS = 20;
 const GOLDEN_ITERATIONS = 14;
 
 function resolveSpec(spec: DesignSpec): ResolvedSpec {
@@ -237,12 +241,136 @@ export function worstReflection(
   return out;
 }
 
+/** One exact evaluation at an arbitrary (ppw, angle); `ws.coef` must hold the design's coefficients. */
+function amplitudeAt(layers: number, courantMedium: number, ws: ReflectionWorkspace, ppw: number, angleDeg: number): number {
+  const om = (2 * Math.PI * courantMedium) / ppw;
+  const th = (angleDeg * Math.PI) / 180;
+  const q = discreteWavenumber(ppw, courantMedium, angleDeg);
+  const sk = Math.sin((q * Math.sin(th)) / 2);
+  fillFactors(ws.coef, om, ws.factors);
+  reflectionKernel(ws.factors, layers, courantMedium, om, sk * sk, ws.out);
+  layerEvaluations += layers;
+  return Math.hypot(ws.out[0], ws.out[1]);
+}
+
+/** Local maxima of the dense grid refined this many at most (highest first). */
+const REFINE_PEAKS = 8;
+const REFINE_ROUNDS = 2;
+const REFINE_ITERATIONS = 12;
+/** Peaks of the dense grid below this share of the target are not climbed (besides the highest). */
+const REFINE_FLOOR = 0.25;
+
+interface Peak {
+  amplitude: number;
+  ppw: number;
+  angleDeg: number;
+}
+
+/**
+ * The worst |r| between the dense samples: every local maximum of the dense
+ * grid (the highest REFINE_PEAKS) is climbed by golden-section searches in
+ * frequency and in angle, alternately, within one dense spacing of its sample
+ * and inside the band and angle range. The result is at least the dense worst.
+ */
+function refinedWorst(d: ResolvedDesign, dense: SampleGrid, courantMedium: number, ws: ReflectionWorkspace, target: number): Peak {
+  fillCoefficients(d, courantMedium, ws.coef);
+  const nf = dense.ppw.length;
+  const na = dense.angleDeg.length;
+  const amp = new Float64Array(nf * na);
+  for (let i = 0; i < nf; i++) {
+    const om = dense.omegaDt[i];
+    fillFactors(ws.coef, om, ws.factors);
+    for (let j = 0; j < na; j++) {
+      reflectionKernel(ws.factors, d.layers, courantMedium, om, dense.sinHalfKt2[i * na + j], ws.out);
+      amp[i * na + j] = Math.hypot(ws.out[0], ws.out[1]);
+    }
+  }
+  layerEvaluations += nf * na * d.layers;
+  const peaks: number[] = [];
+  for (let i = 0; i < nf; i++) {
+    for (let j = 0; j < na; j++) {
+      const v = amp[i * na + j];
+      let top = true;
+      for (let di = -1; di <= 1 && top; di++) {
+        for (let dj = -1; dj <= 1; dj++) {
+          const ii = i + di;
+          const jj = j + dj;
+          if ((di || dj) && ii >= 0 && ii < nf && jj >= 0 && jj < na && amp[ii * na + jj] > v) {
+            top = false;
+            break;
+          }
+        }
+      }
+      if (top) peaks.push(i * na + j);
+    }
+  }
+  peaks.sort((x, y) => amp[y] - amp[x]);
+  let best: Peak = { amplitude: -1, ppw: 0, angleDeg: 0 };
+  for (const k of peaks) if (amp[k] > best.amplitude) best = { amplitude: amp[k], ppw: dense.ppw[Math.floor(k / na)], angleDeg: dense.angleDeg[k % na] };
+  const g = (Math.sqrt(5) - 1) / 2;
+  // Golden-section maximisation of f on [a, b].
+  const climb = (f: (x: number) => number, a: number, b: number): [number, number] => {
+    let c = b - g * (b - a);
+    let e = a + g * (b - a);
+    let fc = f(c);
+    let fe = f(e);
+    for (let it = 0; it < REFINE_ITERATIONS; it++) {
+      if (fc > fe) {
+        b = e;
+        e = c;
+        fe = fc;
+        c = b - g * (b - a);
+        fc = f(c);
+      } else {
+        a = c;
+        c = e;
+        fc = fe;
+        e = a + g * (b - a);
+        fe = f(e);
+      }
+    }
+    return fc > fe ? [c, fc] : [e, fe];
+  };
+  for (const k of peaks.slice(0, REFINE_PEAKS)) {
+    // A peak far below the target does not reach it within one dense spacing; only the worst one is always refined (for the reported worst).
+    if (k !== peaks[0] && amp[k] < REFINE_FLOOR * target) break;
+    const i = Math.floor(k / na);
+    const j = k % na;
+    // Frequency as ν = 1/ppw (the grid is uniform in it), angle in degrees.
+    const nuLo = 1 / dense.ppw[Math.min(nf - 1, i + 1)];
+    const nuHi = 1 / dense.ppw[Math.max(0, i - 1)];
+    const thLo = dense.angleDeg[Math.max(0, j - 1)];
+    const thHi = dense.angleDeg[Math.min(na - 1, j + 1)];
+    let nu = 1 / dense.ppw[i];
+    let th = dense.angleDeg[j];
+    let v = amp[k];
+    for (let round = 0; round < REFINE_ROUNDS; round++) {
+      if (nf > 1) {
+        const [x, fx] = climb((x) => amplitudeAt(d.layers, courantMedium, ws, 1 / x, th), nuLo, nuHi);
+        if (fx > v) [nu, v] = [x, fx];
+      }
+      if (na > 1) {
+        const [y, fy] = climb((y) => amplitudeAt(d.layers, courantMedium, ws, 1 / nu, y), thLo, thHi);
+        if (fy > v) [th, v] = [y, fy];
+      }
+    }
+    if (v > best.amplitude) best = { amplitude: v, ppw: 1 / nu, angleDeg: th };
+  }
+  return best;
+}
+
 interface Optimum {
   strength: number;
   worst: number;
 }
 
-/** Minimises the worst sampled |r| over the strength for fixed N and m. */
+/**
+ * Minimises the worst sampled |r| over the strength for fixed N and m: a log
+ * scan, then golden-section refinement around the best scan point and around
+ * the best other local minimum of the scan. The worst |r| against strength can
+ * have narrow notches (interference between the grading and the back wall, at a
+ * single frequency and near-normal incidence), so one start is not enough.
+ */
 function bestStrength(d: ResolvedDesign, grid: SampleGrid, rs: ResolvedSpec, ws: ReflectionWorkspace, stopBelow: number): Optimum {
   const w: Worst = { amplitude: 0, frequency: 0, angle: 0 };
   let start = 0;
@@ -255,10 +383,13 @@ function bestStrength(d: ResolvedDesign, grid: SampleGrid, rs: ResolvedSpec, ws:
   const lo = Math.log(STRENGTH_MIN);
   const hi = Math.log(MAX_STRENGTH);
   const step = (hi - lo) / (SCAN_POINTS - 1);
+  const scan = new Float64Array(SCAN_POINTS);
   let bestI = 0;
   let bestV = Infinity;
   for (let i = 0; i < SCAN_POINTS; i++) {
+    // Early exit above the best so far: such a value is a lower bound, enough to rank it.
     const v = evalAt(lo + i * step, bestV);
+    scan[i] = v;
     if (v < bestV) {
       bestV = v;
       bestI = i;
@@ -266,34 +397,43 @@ function bestStrength(d: ResolvedDesign, grid: SampleGrid, rs: ResolvedSpec, ws:
   }
   let bestLog = lo + bestI * step;
   if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV };
-  // Golden-section search on the bracket around the best scan point.
-  let a = lo + Math.max(0, bestI - 1) * step;
-  let b = lo + Math.min(SCAN_POINTS - 1, bestI + 1) * step;
+  // Second start: the lowest other local minimum of the scan, away from the best one.
+  let otherI = -1;
+  for (let i = 0; i < SCAN_POINTS; i++) {
+    if (Math.abs(i - bestI) <= 1) continue;
+    const left = i === 0 ? Infinity : scan[i - 1];
+    const right = i === SCAN_POINTS - 1 ? Infinity : scan[i + 1];
+    if (scan[i] <= left && scan[i] <= right && (otherI < 0 || scan[i] < scan[otherI])) otherI = i;
+  }
   const g = (Math.sqrt(5) - 1) / 2;
-  let c = b - g * (b - a);
-  let e = a + g * (b - a);
-  let fc = evalAt(c, Infinity);
-  let fe = evalAt(e, Infinity);
-  for (let it = 0; it < GOLDEN_ITERATIONS; it++) {
-    if (fc < fe) {
-      b = e;
-      e = c;
-      fe = fc;
-      c = b - g * (b - a);
-      fc = evalAt(c, Infinity);
-    } else {
-      a = c;
-      c = e;
-      fc = fe;
-      e = a + g * (b - a);
-      fe = evalAt(e, Infinity);
+  for (const centre of otherI < 0 ? [bestI] : [bestI, otherI]) {
+    let a = lo + Math.max(0, centre - 1) * step;
+    let b = lo + Math.min(SCAN_POINTS - 1, centre + 1) * step;
+    let c = b - g * (b - a);
+    let e = a + g * (b - a);
+    let fc = evalAt(c, Infinity);
+    let fe = evalAt(e, Infinity);
+    for (let it = 0; it < GOLDEN_ITERATIONS; it++) {
+      if (fc < fe) {
+        b = e;
+        e = c;
+        fe = fc;
+        c = b - g * (b - a);
+        fc = evalAt(c, Infinity);
+      } else {
+        a = c;
+        c = e;
+        fc = fe;
+        e = a + g * (b - a);
+        fe = evalAt(e, Infinity);
+      }
+      const m = Math.min(fc, fe);
+      if (m < bestV) {
+        bestV = m;
+        bestLog = fc < fe ? c : e;
+      }
+      if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV };
     }
-    const m = Math.min(fc, fe);
-    if (m < bestV) {
-      bestV = m;
-      bestLog = fc < fe ? c : e;
-    }
-    if (bestV <= stopBelow) break;
   }
   return { strength: Math.exp(bestLog), worst: bestV };
 }
@@ -381,21 +521,28 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
   // steps up by a gallop (1, 2, 4, … layers) and a bisection back down, so the
   // answer is the smallest N that passes with N − 1 failing.
   const w: Worst = { amplitude: 0, frequency: 0, angle: 0 };
-  const denseMemo = new Map<number, ResolvedDesign | null>();
-  const densePass = (N: number): ResolvedDesign | null => {
-    if (denseMemo.has(N)) return denseMemo.get(N) as ResolvedDesign | null;
-    let pass: ResolvedDesign | null = null;
+  const denseMemo = new Map<number, { design: ResolvedDesign; worst: Peak } | null>();
+  const densePass = (N: number): { design: ResolvedDesign; worst: Peak } | null => {
+    if (denseMemo.has(N)) return denseMemo.get(N) ?? null;
+    let pass: { design: ResolvedDesign; worst: Peak } | null = null;
+    // The dense grid first (cheap, stops at the first sample over the target), then between its samples.
+    const meets = (d: ResolvedDesign): Peak | null => {
+      worstReflection(d, dense, rs.courantMedium, ws, target, 0, w);
+      if (w.amplitude > target) return null;
+      const peak = refinedWorst(d, dense, rs.courantMedium, ws, target);
+      return peak.amplitude <= target ? peak : null;
+    };
     // Feasibility stopped at the first strength under the target; the answer uses the best one.
     const opt = bestStrength(baseDesign(rs, N, order), grid, rs, ws, 0);
     if (opt.worst <= target) {
       const d = baseDesign(rs, N, order);
       d.strength = opt.strength;
-      worstReflection(d, dense, rs.courantMedium, ws, Infinity, 0, w);
-      if (w.amplitude > target) {
+      let peak = meets(d);
+      if (!peak) {
         d.strength = bestStrength(baseDesign(rs, N, order), dense, rs, ws, 0).strength;
-        worstReflection(d, dense, rs.courantMedium, ws, Infinity, 0, w);
+        peak = meets(d);
       }
-      if (w.amplitude <= target) pass = d;
+      if (peak) pass = { design: d, worst: peak };
     }
     denseMemo.set(N, pass);
     return pass;
@@ -416,8 +563,7 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
     if (densePass(mid)) passed = mid;
     else failed = mid;
   }
-  const d = densePass(passed) as ResolvedDesign;
-  worstReflection(d, dense, rs.courantMedium, ws, Infinity, 0, w);
+  const { design: d, worst } = densePass(passed) as { design: ResolvedDesign; worst: Peak };
   const cont = continuousReflection(d, rs.ppwMax, rs.angleMaxDeg);
   return {
     layers: passed,
@@ -426,9 +572,9 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
     kappaMax: rs.kappaMax,
     alphaMaxNorm: rs.alphaMaxNorm,
     alphaOrder: rs.alphaOrder,
-    worstAmplitude: w.amplitude,
-    worstPpw: dense.ppw[w.frequency],
-    worstAngleDeg: dense.angleDeg[w.angle],
+    worstAmplitude: worst.amplitude,
+    worstPpw: worst.ppw,
+    worstAngleDeg: worst.angleDeg,
     continuousAmplitude: cont,
     thicknessCells: passed,
   };
