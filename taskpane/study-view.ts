@@ -16,7 +16,7 @@ export function renderStudy(plan: Plan, values: RowValues): void {
   pair('Tolerated error', `${sig(i.intensityError * 100)} % in intensity at the monitor`);
   pair('Echo path', `coupling ${sig(i.coupling)}, ${faces}${i.share < 1 ? `, ${sig(i.share * 100)} % of the budget` : ''}`);
   pair('Required |r|', `${sig(plan.requiredReflection)} per face (amplitude)`);
-  pair('Band', `${sig(g.ppwShort)} to ${sig(g.ppwLong)} cells per wavelength in the background (n = ${sig(i.index)})`);
+  pair('Band', `${g.ppwLong === g.ppwShort ? sig(g.ppwShort) : `${sig(g.ppwShort)} to ${sig(g.ppwLong)}`} cells per wavelength in the background (n = ${sig(i.index)})`);
   pair('Angles', i.dimensions === 1 ? 'normal incidence (1-D)' : `0° to ${sig(i.angleMaxDeg)}°`);
   pair('Grid', `${i.dimensions}-D, Courant number ${sig(i.courant)} (limit ${sig(g.courantLimit)})`);
   budget.appendChild(dl);

@@ -193,9 +193,14 @@ function optionCell(o: OptionPlan): HTMLElement {
 /** What the cost axis shows: the price when the row has one, else the runtime, else the cell count. */
 function costMeasure(plan: Plan): { label: string; value: (p: Plan) => number | null } {
   if (plan.cost.runtime && plan.cost.runtime.cost !== null) {
-    return { label: 'cost (estimate)', value: (p) => p.cost.runtime?.cost ?? null };
+    return { label: "cost (estimate, in the price's currency)", value: (p) => p.cost.runtime?.cost ?? null };
   }
-  if (plan.cost.runtime) return { label: 'runtime (h, estimate)', value: (p) => (p.cost.runtime ? p.cost.runtime.totalSeconds / 3600 : null) };
+  if (plan.cost.runtime) {
+    // A unit that keeps the ticks short: hours, minutes or seconds, from this study's runtime.
+    const t = plan.cost.runtime.totalSeconds;
+    const [unit, scale] = t >= 3600 ? ['h', 3600] : t >= 60 ? ['min', 60] : ['s', 1];
+    return { label: `runtime (${unit}, estimate)`, value: (p) => (p.cost.runtime ? p.cost.runtime.totalSeconds / scale : null) };
+  }
   return { label: 'cells (total)', value: (p) => p.cost.domain.cellsTotal };
 }
 
@@ -290,6 +295,7 @@ function renderCharts(): void {
     lines: [{ axis: 'x', value: target, ...targetLine }],
   };
   state.charts.push(renderChart(byId('chart-cost'), costSpec, colours, width, 200));
+  byId('caption-cost').textContent = `${measure.label[0].toUpperCase()}${measure.label.slice(1)} against worst reflection for every option.`;
 
   const design = designOf(opt.plan);
   const grid = gridOf(plan);
@@ -310,20 +316,20 @@ function renderCharts(): void {
     series: [
       { label: `discrete grid, ${sig(ppwAt)} cells/λ`, x: va.x, y: va.discrete, colour: colours.discrete },
       { label: 'continuous theory', x: va.x, y: va.continuous, colour: colours.continuous, dash: [6, 4] },
-      ...(m2.length
-        ? [
-            { label: '2-D run, measured', x: m2.map((p) => p.angleDeg), y: m2.map((p) => p.measured), colour: colours.measured, points: true },
-            { label: 'predicted at those waves', x: m2.map((p) => p.angleDeg), y: m2.map((p) => p.predicted), colour: colours.measured2, points: true, ring: true, pointSize: 10 },
-          ]
-        : []),
     ],
-    lines: [{ axis: 'y', value: target, ...targetLine }],
+    lines: [
+      { axis: 'y', value: target, ...targetLine },
+      ...(plan.inputs.angleMaxDeg > 0 ? [{ axis: 'x' as const, value: plan.inputs.angleMaxDeg, ...targetLine }] : []),
+    ],
   };
-  state.charts.push(renderChart(byId('chart-angle'), angleSpec, colours, width));
+  // A 1-D grid has no oblique incidence: no angle chart, and the caption says why.
+  const angleBox = byId('chart-angle');
+  angleBox.hidden = plan.inputs.dimensions === 1;
+  if (plan.inputs.dimensions !== 1) state.charts.push(renderChart(angleBox, angleSpec, colours, width));
   byId('caption-angle').textContent =
     plan.inputs.dimensions === 1
-      ? 'A 1-D study meets the absorber at normal incidence only; the curve shows how the same design would fare at an angle.'
-      : `Study's largest angle: ${sig(plan.inputs.angleMaxDeg)}°. Discrete values are exact for the grid; the dashed curve is continuous theory.`;
+      ? 'A 1-D study meets the absorber at normal incidence only, so there is no angle to plot.'
+      : `Study's largest angle: ${sig(plan.inputs.angleMaxDeg)}° (vertical line). Discrete values are exact for the grid; the dashed curve is continuous theory.`;
 
   // Against cells per wavelength across the band, at normal incidence and at the largest angle.
   const ppws = ppwAxis(plan.grid.ppwShort, plan.grid.ppwLong);
@@ -340,14 +346,26 @@ function renderCharts(): void {
     yInclude: [target],
     series: [
       { label: 'discrete, 0°', x: v0.x, y: v0.discrete, colour: colours.discrete },
-      ...(vt ? [{ label: `discrete, ${sig(theta)}°`, x: vt.x, y: vt.discrete, colour: colours.discrete2 }] : []),
+      ...(vt ? [{ label: `discrete, ${sig(theta)}°`, x: vt.x, y: vt.discrete, colour: colours.discrete2, dash: [2, 3] }] : []),
       { label: 'continuous, 0°', x: v0.x, y: v0.continuous, colour: colours.continuous, dash: [6, 4] },
       ...(m1.length ? [{ label: '1-D run, measured', x: m1.map((p) => p.ppw), y: m1.map((p) => p.measured), colour: colours.measured, points: true }] : []),
+      // The 2-D run is made at the study's largest angle, so its points belong on the θ° curve.
+      ...(m2.length
+        ? [{ label: `2-D run at ${sig(m2[0].angleDeg)}°, measured`, x: m2.map((p) => p.ppw), y: m2.map((p) => p.measured), colour: colours.measured2, points: true, ring: true, pointSize: 10 }]
+        : []),
     ],
-    lines: [{ axis: 'y', value: target, ...targetLine }],
+    lines: [
+      { axis: 'y', value: target, ...targetLine },
+      // The study's band, where the axis is wider than it.
+      { axis: 'x', value: plan.grid.ppwShort, ...targetLine },
+      ...(plan.grid.ppwLong !== plan.grid.ppwShort ? [{ axis: 'x' as const, value: plan.grid.ppwLong, ...targetLine }] : []),
+    ],
   };
   state.charts.push(renderChart(byId('chart-ppw'), ppwSpec, colours, width));
-  byId('caption-ppw').textContent = `Band of the study: ${sig(plan.grid.ppwShort)} to ${sig(plan.grid.ppwLong)} cells per wavelength.`;
+  byId('caption-ppw').textContent =
+    plan.grid.ppwLong === plan.grid.ppwShort
+      ? `The study's one frequency: ${sig(plan.grid.ppwShort)} cells per wavelength (vertical line).`
+      : `Band of the study: ${sig(plan.grid.ppwShort)} to ${sig(plan.grid.ppwLong)} cells per wavelength (vertical lines).`;
 
   const d = opt.plan.design;
   byId('highlight-summary').textContent =
@@ -374,11 +392,14 @@ function showVerifyResult(points: MeasuredPoint[], seconds: number | null, notes
   const n2 = points.length - n1;
   r.dataset.difference = String(diff);
   r.className = `result ${diff <= AGREEMENT ? 'ok' : 'bad'}`;
+  // Say exactly what was measured: a skipped 2-D run confirms nothing about oblique incidence.
+  const oblique = (state.plan?.inputs.dimensions ?? 1) > 1 && (state.plan?.inputs.angleMaxDeg ?? 0) > 0;
+  const scope = n2 > 0 || !oblique ? 'The grid behaves as predicted.' : 'The grid behaves as predicted at normal incidence; oblique incidence was not measured.';
   r.textContent =
     `Largest relative difference between measured and predicted |r|: ${sig(diff * 100, 2)} % ` +
-    `over ${n1} frequencies of the 1-D run and ${n2} of the 2-D run` +
+    `over ${n1} frequencies of the 1-D run${n2 > 0 ? ` and ${n2} of the 2-D run` : ' (no 2-D run)'}` +
     (seconds !== null ? ` (${sig(seconds, 2)} s). ` : '. ') +
-    (diff <= AGREEMENT ? 'The grid behaves as predicted.' : `More than ${AGREEMENT * 100} %: the prediction is not confirmed for this design.`) +
+    (diff <= AGREEMENT ? scope : `More than ${AGREEMENT * 100} %: the prediction is not confirmed for this design.`) +
     (notes.length ? ` ${notes.join('. ')}.` : '');
 }
 
@@ -457,8 +478,7 @@ async function apply(): Promise<void> {
 
 /** "Sheet1!H5, Sheet1!I5, …" → "Sheet1!H5 … Sheet1!AK5" style summary when long. */
 function summariseCells(cells: string[]): string {
-  if (cells.length <= 4) return cells.join(', ');
-  return `${cells.slice(0, 2).join(', ')} … ${cells[cells.length - 1]}`;
+  return cells.join(', ');
 }
 
 // ---------------------------------------------------------------- start

@@ -22,6 +22,8 @@ export interface PreparedRun<O> {
   run: MeasurementRun;
   options: O;
   cellUpdates: number;
+  /** Set when the run covers less than asked (for example one frequency of the band), and why. */
+  note?: string;
 }
 
 export interface RunChoice {
@@ -73,9 +75,24 @@ export function chooseRuns(design: AbsorberDesign, grid: VerifyGrid): RunChoice 
   const frequencies = measuredPpw(grid);
   const common = (band: [number, number]) => ({ courant: grid.courant, index: grid.index, ppwLow: band[0], ppwHigh: band[1], frequencies });
   const oneD = prepare<MeasureOptions1D>((o) => createMeasurement1D(design, o), common, grid, PANE_BUDGET_1D);
-  const twoD: RunChoice['twoD'] =
-    grid.dimensions === 1
-      ? { skipped: 'a 1-D study has no oblique incidence' }
-      : prepare<MeasureOptions2D>((o) => createMeasurement2D(design, o), (band) => ({ ...common(band), angleDeg: grid.angleMaxDeg }), grid, PANE_BUDGET_2D);
+  const twoDAt = (g: VerifyGrid) =>
+    prepare<MeasureOptions2D>(
+      (o) => createMeasurement2D(design, o),
+      (band) => ({ courant: g.courant, index: g.index, ppwLow: band[0], ppwHigh: band[1], frequencies: measuredPpw(g), angleDeg: g.angleMaxDeg }),
+      g,
+      PANE_BUDGET_2D,
+    );
+  let twoD: RunChoice['twoD'];
+  if (grid.dimensions === 1) twoD = { skipped: 'a 1-D study has no oblique incidence' };
+  else {
+    twoD = twoDAt(grid);
+    // A whole band at an oblique angle often needs too long a record (or reaches the grid's cut-off);
+    // one frequency at the band's centre is a shorter, narrower run that still tests the angle.
+    if (!('run' in twoD) && grid.ppwMax !== grid.ppwMin) {
+      const centre = 2 / (1 / grid.ppwMin + 1 / grid.ppwMax);
+      const one = twoDAt({ ...grid, ppwMin: centre, ppwMax: centre });
+      if ('run' in one) twoD = { ...one, note: `2-D run at one frequency (${centre.toPrecision(3)} cells per wavelength) instead of the band: for the band, ${twoD.skipped}` };
+    }
+  }
   return { oneD, twoD };
 }

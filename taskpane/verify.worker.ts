@@ -38,6 +38,7 @@ scope.onmessage = async (ev: MessageEvent<ToWorker>) => {
     if ('run' in choice.twoD) {
       const m = await runInChunks(choice.twoD.run, { signal, onProgress: (f) => post({ type: 'progress', id: msg.id, run: '2-D', fraction: f }) });
       out.push(...points(m, '2-D'));
+      if (choice.twoD.note) notes.push(choice.twoD.note);
     } else notes.push(`2-D run not made: ${choice.twoD.skipped}`);
     if (out.length === 0) throw new Error(notes.join('; '));
     post({ type: 'result', id: msg.id, points: out, seconds: (performance.now() - t0) / 1000, notes });
