@@ -12,11 +12,12 @@ import { designWork } from '../../src/physics';
 
 /**
  * Bound on one design search (one designOptions call, all its grading orders):
- * 2·10⁷ layer-evaluations. The largest seen over 3 × 10,000 random specs of
- * tests/properties-core.test.ts was 1.09·10⁷ (target 1e-8 at normal incidence
- * in a high-index medium, where order 2 needs about 180 layers).
+ * 4·10⁷ layer-evaluations. The largest seen over 3 × 10,000 random specs of
+ * tests/properties-core.test.ts was 1.86·10⁷ (a tight target at 3 cells per
+ * wavelength, near the grid's resolution limit, where every order searches up
+ * to the layer cap before the search reports that no design exists).
  */
-export const DESIGN_WORK_BOUND = 20_000_000;
+export const DESIGN_WORK_BOUND = 40_000_000;
 
 /** Starts a work meter; `used()` is the design work done since. */
 export function workMeter(): { used(): number } {
