@@ -111,6 +111,8 @@ describe('hush plan', () => {
     expect(j.rows[1].outputs.notes).toBe('error: band_short must be a length or a frequency (got 5 kg)');
     expect(typeof j.rows[2].outputs.layers).toBe('number');
     expect(j.rows[1].inputs.band_short).toBe('5 kg');
+    // The per-cell constants of the cost model travel with the plan (xlsx: its "about" sheet).
+    expect(j.cost_constants.map((c: { name: string }) => c.name)).toContain('field values per cell');
   });
 
   it('never writes over the project table, and replaces an existing --out file only with --replace', async () => {

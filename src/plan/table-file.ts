@@ -142,7 +142,7 @@ async function writePlanFile(file: string, format: TableFormat, header: readonly
       if (r.outputs) OUTPUT_NAMES.forEach((n, j) => (outputs[n] = (r.outputs as PlanCell[])[j]));
       return { row: i + 2, inputs, outputs: r.outputs ? outputs : null, failed: r.failed };
     });
-    await fs.writeFile(file, JSON.stringify({ model_version: MODEL_VERSION, note: ESTIMATE_NOTE, rows: list }, null, 2) + '\n', 'utf8');
+    await fs.writeFile(file, JSON.stringify({ model_version: MODEL_VERSION, note: ESTIMATE_NOTE, cost_constants: COST_CONSTANTS, rows: list }, null, 2) + '\n', 'utf8');
     return;
   }
   const wb = new ExcelJS.Workbook();
