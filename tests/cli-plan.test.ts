@@ -43,6 +43,19 @@ describe('hush cost', () => {
     expect(j.steps).toBe(29980);
   });
 
+  it('per-face layer counts (x-,x+,y-,y+ order) give each face its own absorber (hand count)', async () => {
+    const r = await run(['cost', '--cells', '10,10', '--layers', '2,4,0,1', '--json']);
+    expect(r.code).toBe(0);
+    // Grid (10+2+4) × (10+0+1) = 16 × 11 = 176 cells, 100 of them interior.
+    const j = JSON.parse(r.out);
+    expect(j.cells_total).toBe(176);
+    expect(j.cells_absorber).toBe(76);
+    const bad = await run(['cost', '--cells', '10,10', '--layers', '2,2,3,3', '--faces', 'x-,x+']);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--layers gives 3 layers to y-, which --faces leaves without an absorber/);
+    expect((await run(['cost', '--cells', '10,10', '--layers', '2,2,3'])).err).toMatch(/--layers must be one whole number or 4/);
+  });
+
   it('bad arguments exit with 2', async () => {
     expect((await run(['cost', '--layers', '2'])).code).toBe(2);
     expect((await run(['cost', '--cells', '10', '--layers', '2', '--cell', '1e-9'])).code).toBe(2);

@@ -4,7 +4,7 @@ import { numberOption, parseArgs, requiredNumber, stringOption, UsageError } fro
 import { fmt, type CommandIO } from './io';
 
 export const costUsage =
-  'hush cost --cells NX[,NY[,NZ]] --layers N [--faces x-,x+,y-,y+,z-,z+ (absorbing faces; default all)] [--gap CELLS=0] [--precision single|double] [--cell SIZE --courant C --duration T] [--throughput UPDATES_PER_S] [--price PER_NODE_HOUR] [--fields-per-cell F] [--material-per-cell M] [--absorber-factor A=1.5] [--json]';
+  'hush cost --cells NX[,NY[,NZ]] --layers N|N1,N2,… (one per face, x-,x+,y-,y+,z-,z+ order) [--faces x-,x+,y-,y+,z-,z+ (absorbing faces; default all)] [--gap CELLS=0] [--precision single|double] [--cell SIZE (e.g. 20nm; a bare number is metres) --courant C --duration T (e.g. 3ps; a bare number is seconds)] [--throughput UPDATES_PER_S] [--price PER_NODE_HOUR] [--fields-per-cell F] [--material-per-cell M] [--absorber-factor A=1.5] [--json]';
 
 function parseCells(text: string | undefined): number[] {
   if (text === undefined) throw new UsageError('option --cells is required (e.g. --cells 200,200,100)');
@@ -13,6 +13,16 @@ function parseCells(text: string | undefined): number[] {
     throw new UsageError(`--cells must be 1 to 3 whole numbers separated by commas (got ${JSON.stringify(text)})`);
   }
   return parts.map(Number);
+}
+
+/** One layer count for every absorbing face, or one per face of the grid in x-,x+,y-,y+,z-,z+ order. */
+function parseLayers(text: string | undefined, dims: number): number | number[] {
+  if (text === undefined) throw new UsageError('option --layers is required (e.g. --layers 12, or one per face: --layers 12,12,8,8,20,20)');
+  const parts = text.split(',').map((t) => t.trim());
+  if (parts.some((p) => !/^\d+$/.test(p)) || (parts.length !== 1 && parts.length !== 2 * dims)) {
+    throw new UsageError(`--layers must be one whole number or ${2 * dims} (one per face of a ${dims}-D grid: ${FACE_NAMES.slice(0, 2 * dims).join(',')}; got ${JSON.stringify(text)})`);
+  }
+  return parts.length === 1 ? Number(parts[0]) : parts.map(Number);
 }
 
 function parseFaceList(text: string | undefined, dims: number): FaceKind[] {
@@ -36,6 +46,12 @@ export function costCommand(argv: string[], io: CommandIO): number {
   const interior = parseCells(stringOption(args, 'cells'));
   const dims = interior.length;
   const faces = parseFaceList(stringOption(args, 'faces'), dims);
+  const layers = parseLayers(stringOption(args, 'layers'), dims);
+  if (Array.isArray(layers)) {
+    layers.forEach((L, i) => {
+      if (L > 0 && faces[i] !== 'absorbing') throw new UsageError(`--layers gives ${L} layers to ${FACE_NAMES[i]}, which --faces leaves without an absorber; give 0 there or list the face in --faces`);
+    });
+  }
   const cellText = stringOption(args, 'cell');
   const courant = numberOption(args, 'courant');
   const durationText = stringOption(args, 'duration');
@@ -44,7 +60,7 @@ export function costCommand(argv: string[], io: CommandIO): number {
   const precision = stringOption(args, 'precision') ?? 'single';
   if (precision !== 'single' && precision !== 'double') throw new UsageError(`--precision must be single or double (got ${JSON.stringify(precision)})`);
   const r = runCost({
-    domain: { dimensions: dims, interior, layers: requiredNumber(args, 'layers'), faces, gap: numberOption(args, 'gap', 0) },
+    domain: { dimensions: dims, interior, layers, faces, gap: numberOption(args, 'gap', 0) },
     precision,
     fieldsPerCell: numberOption(args, 'fields-per-cell'),
     materialPerCell: numberOption(args, 'material-per-cell'),
