@@ -1,5 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'fs';
+import { execFileSync, spawnSync } from 'child_process';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'fs';
 import { tmpdir } from 'os';
 import { join } from 'path';
 import ExcelJS from 'exceljs';
@@ -94,6 +95,25 @@ describe('hush plan', () => {
     const text = JSON.stringify(about.getSheetValues());
     expect(text).toMatch(/planning estimates/);
     expect(text).toMatch(/convergence check/);
+  });
+
+  it('`npm run demo` is this command, and run as its own process it writes a workbook exceljs opens with one plan per study', async () => {
+    const root = join(__dirname, '..');
+    const script = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')).scripts.demo as string;
+    expect(script).toBe('npm run build:cli --silent && node bin/hush.js plan assets/demo-project.csv --out demo-plan.xlsx --replace');
+    // The same command after the build, writing into the temp dir instead of the checkout (.ci/run runs the script itself).
+    const out = join(dir, 'demo-plan-process.xlsx');
+    if (!existsSync(join(root, 'dist/node/cli/index.js'))) execFileSync('npx', ['tsc', '-p', 'tsconfig.cli.json'], { cwd: root });
+    const p = spawnSync(process.execPath, ['bin/hush.js', 'plan', 'assets/demo-project.csv', '--out', out, '--replace'], { cwd: root, encoding: 'utf8' });
+    expect(p.status, p.stderr).toBe(0);
+    expect(p.stdout).toMatch(/8 planned, 0 failed/);
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(out);
+    const ws = wb.getWorksheet('plan')!;
+    const source = parseCsv(readFileSync(demo, 'utf8'));
+    expect(ws.rowCount).toBe(source.length);
+    const layersCol = source[0].length + 1 + OUTPUT_NAMES.indexOf('layers');
+    for (let r0 = 2; r0 <= source.length; r0++) expect(typeof ws.getRow(r0).getCell(layersCol).value).toBe('number');
   });
 
   it('writes CSV with the inputs exactly as typed and outputs in added columns', async () => {
