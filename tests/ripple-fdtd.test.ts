@@ -8,7 +8,8 @@
  * The time-domain loop here is written independently of src/physics/fdtd.
  */
 import { describe, expect, it } from 'vitest';
-import { cpmlCoefficients, reflection, resolveDesign, rippleFromReflection, SPEED_OF_LIGHT, dtftAt } from '../src/physics';
+import { cpmlCoefficients, reflection, resolveDesign, rippleFromReflection, SPEED_OF_LIGHT } from '../src/physics';
+import { dtftAt } from '../src/physics/internal';
 
 const S = 0.5; // Courant number (1-D, vacuum background)
 const CELL = 1e-6; // m, only to express frequencies in Hz for the diagnostics
@@ -147,10 +148,18 @@ describe('spectral ripple from a thin absorber, time-domain round trip', () => {
     let max = -Infinity;
     let min = Infinity;
     for (let k = 0; k < count; k++) if (Math.abs(nu[k] - centre) <= period) { max = Math.max(max, ratio[k]); min = Math.min(min, ratio[k]); }
-    const inv = reflectionFromRipple(max - min, (period * SPEED_OF_LIGHT) / CELL);
+    // The period is the measured spacing of the ripple's maxima, not the predicted one.
+    const peaks: number[] = [];
+    for (let k = 1; k < count - 1; k++) {
+      if (nu[k] > 1 / 30 && nu[k] < 1 / 15 && ratio[k] > ratio[k - 1] && ratio[k] >= ratio[k + 1]) peaks.push(nu[k]);
+    }
+    const measuredPeriodHz = (((peaks[peaks.length - 1] - peaks[0]) / (peaks.length - 1)) * SPEED_OF_LIGHT) / CELL;
+    const inv = reflectionFromRipple(max - min, measuredPeriodHz);
     const r = reflection(THIN, { ppw: 20, courant: S, dimensions: 1 }).amplitude;
     expect(inv.amplitude / r).toBeGreaterThan(0.8);
     expect(inv.amplitude / r).toBeLessThan(1.2);
-    expect(inv.distanceMetres / (D * CELL)).toBeCloseTo(1, 6);
+    expect(inv.distanceMetres / (D * CELL)).toBeGreaterThan(0.8);
+    expect(inv.distanceMetres / (D * CELL)).toBeLessThan(1.2);
+    console.log(`ripple inverse: |r| ${(inv.amplitude / r).toFixed(3)}× the exact value, distance ${(inv.distanceMetres / (D * CELL)).toFixed(3)}× the true one`);
   });
 });
