@@ -79,6 +79,17 @@ describe('exact reflection model vs 2-D periodic TMz run, oblique incidence, S =
   }
 });
 
+describe('at 60°, the largest angle the planner calls verified (src/plan VERIFIED_ANGLE_DEG)', () => {
+  for (const d of [DESIGNS[0], DESIGNS[DESIGNS.length - 1]]) {
+    it(`agrees for ${name(d)} at 60° (one narrow band)`, () => {
+      const m = measureReflection2DSync(d, { courant: DEFAULT_COURANT, angleDeg: 60, ppwLow: 11, ppwHigh: 12 });
+      const mid = m.frequencies[Math.floor(m.frequencies.length / 2)];
+      expect(Math.abs(mid.angleDeg - 60)).toBeLessThan(1);
+      checkAgreement(m, `2-D 60° ${name(d)}`);
+    });
+  }
+});
+
 describe('in a background of index n = 1.5 (S_m = S/n, physics.md §3)', () => {
   const d: AbsorberDesign = { layers: 8, order: 3, kappaMax: 3, alphaMaxNorm: 0.1 };
   it('1-D agrees at normal incidence', () => {

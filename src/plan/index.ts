@@ -113,6 +113,8 @@ export const MIN_ADVISED_PPW = 10;
 export const MIN_ADVISED_GAP_WAVELENGTHS = 0.5;
 /** Above this angle the absorber's attenuation (∝ cos θ) drops fast; warn. */
 export const GRAZING_WARNING_DEG = 60;
+/** Largest angle at which tests/verification.test.ts (and the audit runs) confirmed the exact model by a 2-D time-domain run. */
+export const VERIFIED_ANGLE_DEG = 60;
 
 function get(row: ProjectRow, name: string): FieldValue {
   const v = row[name];
@@ -365,7 +367,10 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     );
   }
   if (i.angleMaxDeg > GRAZING_WARNING_DEG) {
-    warnings.push(`grazing incidence: at ${i.angleMaxDeg}° the absorber's attenuation falls as cos θ; a larger gap or a smaller angle range is cheaper than more layers`);
+    warnings.push(
+      `grazing incidence: at ${i.angleMaxDeg}° the absorber's attenuation falls as cos θ; a larger gap or a smaller angle range is cheaper than more layers; ` +
+        `the exact model is confirmed by time-domain runs up to ${VERIFIED_ANGLE_DEG}° only, so check this design with a run at the study's angle`,
+    );
   }
   if (!hasRun) warnings.push('no run length: give duration, passes or q for steps, runtime and cost');
   else if (i.throughput === null) warnings.push('no throughput: give cell updates per second for runtime and cost');
