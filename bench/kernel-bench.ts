@@ -3,7 +3,8 @@
  * in the product's TypeScript versus the same recurrence in plain C (bench/kernel.c).
  * Goal (BENCHMARKS.md): TypeScript ≥ 0.5× the C speed.
  */
-import { allocateCoefficients, allocateFactors, fillCoefficients, fillFactors, reflectionKernel, resolveDesign, DEFAULT_COURANT } from '../src/physics';
+import { resolveDesign, DEFAULT_COURANT } from '../src/physics';
+import { allocateCoefficients, allocateFactors, fillCoefficients, fillFactors, reflectionKernel } from '../src/physics/internal';
 import { compileC, runC } from './c';
 
 export function tsKernelRate(layers: number, seconds: number): { rate: number; check: number } {

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
   SPEED_OF_LIGHT,
-  blockSplit,
   domainCounts,
   ringdownTime,
   runCost,
@@ -9,6 +8,7 @@ import {
   timeStep,
   type FaceKind,
 } from '../src/physics';
+import { blockSplit } from '../src/physics/internal';
 
 /** Independent computation: visit every cell and count the axes whose absorber slab holds it. */
 function bruteForce(dims: number, interior: number[], layers: number[], gap: number[]) {

@@ -137,17 +137,22 @@ describe('planRow: budget → design → cost', () => {
     expect(planRow(ring).warnings.filter((w) => /not used/.test(w))).toEqual([]);
   });
 
+  it('no output column shares its name with an input field (a table holds both side by side)', () => {
+    const inputs = new Set(INPUT_NAMES);
+    expect(OUTPUT_NAMES.filter((n) => inputs.has(n))).toEqual([]);
+  });
+
   it('memory is split into fields, material and ψ, with the per-cell constants it used in the output (hand count)', () => {
     const p = planRow(ring);
     const GB = 1e9;
     const cells = value(p, 'cells_total') as number;
     // 3-D, single precision: 6 field and 3 material values per cell, 4 bytes each (src/plan/fields.ts COST_CONSTANTS).
-    expect([value(p, 'fields_per_cell'), value(p, 'material_per_cell'), value(p, 'bytes_per_value')]).toEqual([6, 3, 4]);
+    expect([value(p, 'field_values_per_cell'), value(p, 'material_values_per_cell'), value(p, 'bytes_per_value')]).toEqual([6, 3, 4]);
     expect(value(p, 'memory_fields')).toBeCloseTo((cells * 6 * 4) / GB, 15);
     expect(value(p, 'memory_material')).toBeCloseTo((cells * 3 * 4) / GB, 15);
     expect((value(p, 'memory_fields') as number) + (value(p, 'memory_material') as number) + (value(p, 'memory_psi') as number)).toBeCloseTo(value(p, 'memory') as number, 12);
     const adj = planRow({ ...ring, fields_per_cell: 12, precision: 'double' });
-    expect([value(adj, 'fields_per_cell'), value(adj, 'bytes_per_value')]).toEqual([12, 8]);
+    expect([value(adj, 'field_values_per_cell'), value(adj, 'bytes_per_value')]).toEqual([12, 8]);
   });
 
   it('parallel_efficiency is blank when the halo model has no runtime to derive it from', () => {

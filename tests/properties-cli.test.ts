@@ -738,9 +738,14 @@ describe('regressions found by the CLI properties', () => {
     await refused(['cost', '--cells', '10', '--layers', '2', '--cell', '1e308 km', '--courant', '0.5', '--duration', '1 ps'], /cell is out of range \(got "1e308 km"\)/);
   });
   it('a run of more than 2^53 - 1 steps is refused (a 1e-300 m cell gave 1.5e301 steps and an infinite runtime, shown as null)', async () => {
+    // The cell itself is now refused below 1e-15 m; at that size 20 ns still needs more than 2^53 - 1 steps.
     await refused(
       ['cost', '--cells', '24,358', '--layers', '5', '--cell', '1e-300', '--courant', '0.4', '--duration', '20 ns', '--throughput', '2e7', '--json'],
-      /the run needs 1\.499e\+301 time steps .* more than 9007199254740991/,
+      /cell size must be at least 1e-15 and at most 1 m \(got 1e-300 m\)/,
+    );
+    await refused(
+      ['cost', '--cells', '24,358', '--layers', '5', '--cell', '1e-15', '--courant', '0.4', '--duration', '20 ns', '--throughput', '2e7', '--json'],
+      /the run needs 1\.499e\+16 time steps .* more than 9007199254740991/,
     );
   });
   it('a line break in a value stays on one line of stderr', async () => {

@@ -34,6 +34,8 @@ const plausible = (lo: number, hi: number) => fc.oneof(fc.double({ min: lo, max:
 
 function allFinite(x: unknown): boolean {
   if (typeof x === 'number') return Number.isFinite(x);
+  // Flags and "not computed" (null) carry no number.
+  if (typeof x === 'boolean' || x === null) return true;
   if (Array.isArray(x)) return x.every(allFinite);
   if (x && typeof x === 'object') return Object.values(x).every((v) => typeof v === 'string' || allFinite(v));
   return typeof x === 'string';
@@ -98,4 +100,83 @@ describe('property: core functions never crash, never return NaN', () => {
       { numRuns: RUNS, seed: SEED },
     );
   });
+});
+
+/**
+ * Contract checks, not physics: every function of the public barrel
+ * (src/physics/index.ts) keeps the contract of DEVELOPERS.md ("Errors"): finite
+ * values or a HushInputError, whatever it is given. No expected value has a
+ * source here because none is checked, only the contract.
+ */
+const PUBLIC_CALLS = 2_000;
+/** Functions with their own tests: caches, counters, and the measurement runs (async or step by step). */
+const OWN_TESTS = new Set(['clearDesignCache', 'designWork', 'runInChunks']);
+/** The functions that run a design search, bounded by the design-work bound; every other one may do none. */
+const SEARCHES = new Set(['designOptions', 'designAbsorber']);
+
+function isClass(name: string, fn: (...args: unknown[]) => unknown): boolean {
+  if (/^[A-Z]/.test(name)) return true;
+  const proto = fn.prototype as object | undefined;
+  return proto !== undefined && Object.getOwnPropertyNames(proto).some((k) => k !== 'constructor');
+}
+
+function skipped(name: string, fn: (...args: unknown[]) => unknown): boolean {
+  const isAsync = fn.constructor.name === 'AsyncFunction';
+  return isClass(name, fn) || OWN_TESTS.has(name) || name.startsWith('createMeasurement') || (name.startsWith('measure') && isAsync);
+}
+
+/** Numbers in the ranges the core accepts (Courant numbers, cells per wavelength, layers, angles, orders, …). */
+const plausibleNumber = fc.oneof(
+  fc.double({ min: 0, max: 1, noNaN: true }),
+  fc.double({ min: 1, max: 100, noNaN: true }),
+  fc.integer({ min: 0, max: 12 }),
+  fc.constantFrom(0.3, 0.5, 0.9, 1e-3, 1e-9, 20, 30, 45, 1e9),
+);
+/** Objects and words the core takes (fresh copies: no call sees another's changes). None starts a time-domain run. */
+const plausibleObject = fc
+  .constantFrom<unknown>(
+    { layers: 8, order: 3 },
+    { layers: 6, order: 2, kappaMax: 3, alphaMaxNorm: 0.1, grading: 'geometric' },
+    { ppw: 20 },
+    { ppw: 15, angleDeg: 30, courant: 0.5, dimensions: 2 },
+    { target: 1e-3, ppwMin: 20 },
+    { intensityError: 0.01 },
+    { coupling: 0.5, faces: 2, phase: 'random' },
+    { dimensions: 1, interior: [100], layers: 10 },
+    { domain: { dimensions: 2, interior: [50, 40], layers: 8 }, time: { cellMetres: 1e-8, courant: 0.5, passes: 2 }, throughput: 1e9, pricePerHour: 2 },
+    { cellMetres: 1e-3, courant: 0.5, passes: 2 },
+    'worst',
+    'random',
+    'single',
+    'double',
+  )
+  .map((v) => structuredClone(v));
+const publicArg = fc.oneof({ arbitrary: anyValue, weight: 2 }, { arbitrary: plausibleNumber, weight: 3 }, { arbitrary: plausibleObject, weight: 2 });
+
+describe('property: every public core function keeps the error contract (contract checks, not physics)', () => {
+  it(`finite values or HushInputError, ${PUBLIC_CALLS} random calls per function`, async () => {
+    const core = (await import('../src/physics')) as Record<string, unknown>;
+    const tested: string[] = [];
+    for (const [name, value] of Object.entries(core)) {
+      if (typeof value !== 'function') continue;
+      const fn = value as (...args: unknown[]) => unknown;
+      if (skipped(name, fn)) continue;
+      tested.push(name);
+      const bound = SEARCHES.has(name) ? DESIGN_WORK_BOUND : 0;
+      // fn.length stops at the first defaulted parameter, so up to 3 more arguments reach the optional ones.
+      const args = fc.array(publicArg, { maxLength: fn.length + 3 });
+      try {
+        fc.assert(
+          fc.property(args, (a) => check(() => fn(...a), bound)),
+          { numRuns: PUBLIC_CALLS, seed: SEED },
+        );
+      } catch (e) {
+        throw new Error(`${name}: ${(e as Error).message}`);
+      }
+    }
+    // The enumeration must reach the barrel (a broken import would test nothing).
+    expect(tested).toContain('reflection');
+    expect(tested).toContain('numericalPhaseVelocity');
+    expect(tested.length).toBeGreaterThan(30);
+  }, 600_000);
 });

@@ -108,7 +108,7 @@ describe('summary', () => {
     const worst = Math.max(...seen.map((s) => s.worst));
     const lines = seen.map((s) => `${s.worst.toExponential(1)}  tail ${s.tail.toExponential(1)}  ${s.updates.toExponential(1)} updates  ${s.label}`);
     console.log(`time-domain vs exact model, ${seen.length} runs, worst ${worst.toExponential(2)}\n${lines.join('\n')}`);
-    expect(seen.length).toBe(3 * DESIGNS.length + 2);
+    expect(seen.length).toBe(3 * DESIGNS.length + 4);
     expect(worst).toBeLessThan(1e-6);
   });
 });

@@ -45,28 +45,41 @@ export const MAX_INTENSITY_ERROR = 1;
 export const MIN_INTENSITY_ERROR = 1e-12;
 /** Smallest coupling or share accepted. */
 export const MIN_FRACTION = 1e-6;
+/** Most faces whose echoes are combined (the six faces of a 3-D domain). */
+const MAX_FACES = 6;
+/** Largest echo amplitude A accepted: at most six faces, each reflecting |r| < 1 with coupling c ≤ 1, give A < 6. */
+export const MAX_ECHO_AMPLITUDE = MAX_FACES;
+
+function checkPhase(phase: unknown): PhaseModel {
+  if (phase !== 'worst' && phase !== 'random') {
+    throw new HushInputError('phase', `phase must be "worst" or "random" (got ${JSON.stringify(phase) ?? 'nothing'})`, 'value');
+  }
+  return phase;
+}
 
 function resolve(o: BudgetOptions): Resolved {
+  if (o === null || typeof o !== 'object') throw new HushInputError('budget options', 'budget options must be an object', 'value');
   const coupling = inRange('coupling', o.coupling ?? 1, MIN_FRACTION, 1);
-  const faces = wholeInRange('faces', o.faces ?? 1, 1, 6);
-  const phase = o.phase ?? 'worst';
-  if (phase !== 'worst' && phase !== 'random') {
-    throw new HushInputError('phase', `phase must be "worst" or "random" (got ${JSON.stringify(phase)})`, 'value');
-  }
+  const faces = wholeInRange('faces', o.faces ?? 1, 1, MAX_FACES);
+  const phase = checkPhase(o.phase ?? 'worst');
   const share = inRange('share', o.share ?? 1, MIN_FRACTION, 1);
   return { coupling, faces, phase, share };
 }
 
-/** Echo amplitude A for an intensity error ε under a phase model. */
+/** Echo amplitude A for an intensity error 0 ≤ ε ≤ MAX_INTENSITY_ERROR under a phase model. */
 export function echoAmplitudeForError(error: number, phase: PhaseModel): number {
+  inRange('intensity error', error, 0, MAX_INTENSITY_ERROR);
+  checkPhase(phase);
   // Written without cancellation: √(1+x) − 1 = x/(√(1+x) + 1).
   if (phase === 'worst') return error / (Math.sqrt(1 + error) + 1);
   const e2 = error * error;
   return Math.sqrt(e2 / (Math.sqrt(1 + e2) + 1));
 }
 
-/** Intensity error ε caused by an echo of amplitude A under a phase model. */
+/** Intensity error ε caused by an echo of amplitude 0 ≤ A ≤ MAX_ECHO_AMPLITUDE under a phase model. */
 export function errorForEchoAmplitude(a: number, phase: PhaseModel): number {
+  inRange('echo amplitude', a, 0, MAX_ECHO_AMPLITUDE);
+  checkPhase(phase);
   // (1 + A)² − 1 = A·(2 + A), written without cancellation.
   return phase === 'worst' ? a * (2 + a) : a * Math.sqrt(2 + a * a);
 }

@@ -7,6 +7,8 @@ export const EPS0 = 1 / (MU0 * SPEED_OF_LIGHT * SPEED_OF_LIGHT);
 /** Impedance of free space η₀ = μ₀c, Ω. */
 export const ETA0 = MU0 * SPEED_OF_LIGHT;
 
+/** Smallest cell size accepted, m (a femtometre: no electromagnetic grid is finer; smaller values are unit mistakes and underflow the time step). */
+export const MIN_CELL_METRES = 1e-15;
 /** Largest absorber the planner accepts, in cells. Thicker absorbers are never needed in practice and would only hide a wrong input. */
 export const MAX_LAYERS = 200;
 /** Largest polynomial grading order accepted (Taflove & Hagness cite 3 ≤ m ≤ 4 as usual; higher orders are allowed for study). */

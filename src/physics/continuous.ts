@@ -6,7 +6,9 @@
  * polynomial grading and the geometric closed form of physics.md §2.
  * κ does not change the attenuation of propagating waves in continuous theory.
  */
-import { profileAt, sigmaOptNorm, type ResolvedDesign } from './grading';
+import { profileAt, resolveDesign, sigmaOptNormUnchecked, type AbsorberDesign, type ResolvedDesign } from './grading';
+import { MAX_PPW } from './dispersion';
+import { inRange } from './validate';
 
 const DEG = Math.PI / 180;
 const prof = new Float64Array(3);
@@ -17,7 +19,7 @@ export function attenuationIntegral(d: ResolvedDesign, ppw: number): number {
   if (d.alphaMaxNorm === 0) {
     // Both gradings are normalised so that the round trip is 1.6·s·N nepers at θ = 0.
     if (d.grading === 'geometric') return 0.8 * d.strength * N;
-    return (d.strength * sigmaOptNorm(d.order) * N) / (d.order + 1);
+    return (d.strength * sigmaOptNormUnchecked(d.order) * N) / (d.order + 1);
   }
   const wn = (2 * Math.PI) / ppw;
   // 5-point Gauss–Legendre on 64 panels: ample for smooth profiles.
@@ -38,7 +40,19 @@ export function attenuationIntegral(d: ResolvedDesign, ppw: number): number {
   return sum * N;
 }
 
-/** Continuous-theory amplitude reflection at `angleDeg` for `ppw` cells per wavelength. */
-export function continuousReflection(d: ResolvedDesign, ppw: number, angleDeg: number): number {
+/**
+ * Continuous-theory amplitude reflection at `angleDeg` (0 ≤ θ < 90°) for `ppw`
+ * cells per wavelength (0 < ppw ≤ MAX_PPW); the design is checked and its
+ * defaults filled in (`resolveDesign`).
+ */
+export function continuousReflection(design: AbsorberDesign, ppw: number, angleDeg: number): number {
+  const d = resolveDesign(design);
+  const p = inRange('cells per wavelength', ppw, 0, MAX_PPW, { loOpen: true });
+  const th = inRange('angle', angleDeg, 0, 90, { hiOpen: true, unit: 'degrees' });
+  return continuousReflectionUnchecked(d, p, th);
+}
+
+/** `continuousReflection` of a resolved design without the checks (src/physics/internal.ts). */
+export function continuousReflectionUnchecked(d: ResolvedDesign, ppw: number, angleDeg: number): number {
   return Math.exp(-2 * Math.cos(angleDeg * DEG) * attenuationIntegral(d, ppw));
 }

@@ -20,7 +20,7 @@
  *   plane cross the cut, 4 values in 3-D (2 E one way, 2 H the other), 2 in
  *   2-D and 1-D, in 2 messages per neighbour (one per half step).
  */
-import { SPEED_OF_LIGHT } from './constants';
+import { MIN_CELL_METRES, SPEED_OF_LIGHT } from './constants';
 import { checkCourant } from './courant';
 import { domainCounts, type DomainCounts, type DomainSpec } from './domain';
 import { HushInputError } from './errors';
@@ -55,7 +55,7 @@ export function bytesPerValue(precision: Precision): number {
 
 /** Δt = S·Δ/c for vacuum Courant number S and cell Δ (m), checked against the D-dimensional limit. */
 export function timeStep(cellMetres: number, courant: number, dimensions: number): number {
-  const d = inRange('cell size', cellMetres, 0, 1, { loOpen: true, unit: 'm' });
+  const d = inRange('cell size', cellMetres, MIN_CELL_METRES, 1, { unit: 'm' });
   const s = checkCourant(courant, dimensions);
   return (s * d) / SPEED_OF_LIGHT;
 }
@@ -172,8 +172,11 @@ export interface CostResult {
   runtime: RuntimeResult | null;
 }
 
+/** Time step, simulated time and step count of a run on a `dims`-D grid whose longest side has `longestSideCells` cells. */
 export function runTime(spec: RunTimeSpec, dims: number, longestSideCells: number): TimeResult {
+  if (spec === null || typeof spec !== 'object') throw new HushInputError('run time', 'run time spec must be an object', 'value');
   const dt = timeStep(spec.cellMetres, spec.courant, dims);
+  wholeInRange('longest side (cells)', longestSideCells, 1, Number.MAX_SAFE_INTEGER);
   const given = [spec.duration, spec.passes, spec.q].filter((v) => v !== undefined).length;
   if (given !== 1) {
     throw new HushInputError('run length', `give exactly one of duration, passes or q (got ${given})`, 'value');

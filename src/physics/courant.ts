@@ -1,5 +1,5 @@
 import { HushInputError } from './errors';
-import { finite, wholeInRange } from './validate';
+import { finite, inRange, wholeInRange } from './validate';
 
 /** Spatial dimensions of a Yee grid. */
 export type Dimensions = 1 | 2 | 3;
@@ -25,6 +25,25 @@ export function checkCourant(courant: unknown, dimensions: number = 3): number {
     throw new HushInputError(
       'Courant number',
       `Courant number ${s} is above the ${dimensions}-D stability limit 1/√${dimensions} = ${limit.toPrecision(6)}`,
+    );
+  }
+  return s;
+}
+
+/** Smallest Courant number in the medium accepted: MIN_COURANT in the densest medium accepted (index 100). */
+export const MIN_COURANT_MEDIUM = MIN_COURANT / 100;
+
+/**
+ * Checks a Courant number in the medium S_m = S/n (n ≥ 1) and returns it:
+ * MIN_COURANT_MEDIUM ≤ S_m ≤ 1/√D, D = `dimensions` (default 1, the widest limit).
+ */
+export function checkCourantMedium(courantMedium: unknown, dimensions: number = 1): number {
+  const limit = courantLimit(dimensions);
+  const s = inRange('Courant number in the medium', courantMedium, MIN_COURANT_MEDIUM, Infinity);
+  if (s > limit * (1 + 1e-12)) {
+    throw new HushInputError(
+      'Courant number in the medium',
+      `Courant number in the medium ${s} is above the ${dimensions}-D stability limit 1/√${dimensions} = ${limit.toPrecision(6)}`,
     );
   }
   return s;

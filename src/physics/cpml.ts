@@ -6,7 +6,8 @@
  * Node convention (physics.md §3): E nodes at depths i = 0…N, H nodes at
  * depths i + ½, i = 0…N−1, profiles sampled at each node's own depth.
  */
-import { profileAt, type ResolvedDesign } from './grading';
+import { profileAt, resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
+import { checkCourantMedium } from './courant';
 
 /** Coefficients of one absorber on its E and H nodes. */
 export interface CpmlCoefficients {
@@ -70,7 +71,13 @@ export function fillCoefficients(design: ResolvedDesign, courantMedium: number, 
   return out;
 }
 
-/** Coefficients of a design in freshly allocated arrays (convenience for engines and tests). */
-export function cpmlCoefficients(design: ResolvedDesign, courantMedium: number): CpmlCoefficients {
-  return fillCoefficients(design, courantMedium, allocateCoefficients(design.layers));
+/**
+ * Coefficients of a design in freshly allocated arrays (convenience for engines
+ * and tests). Checks the design (`resolveDesign`, defaults filled in) and the
+ * Courant number in the medium (MIN_COURANT_MEDIUM ≤ S_m ≤ 1).
+ */
+export function cpmlCoefficients(design: AbsorberDesign, courantMedium: number): CpmlCoefficients {
+  const d = resolveDesign(design);
+  const sm = checkCourantMedium(courantMedium);
+  return fillCoefficients(d, sm, allocateCoefficients(d.layers));
 }

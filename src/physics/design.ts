@@ -26,9 +26,9 @@
  * The cheapest (fewest layers; then lower worst reflection) order wins.
  */
 import { DEFAULT_COURANT, checkCourant } from './courant';
-import { checkPpw, discreteWavenumber } from './dispersion';
+import { checkPpw, discreteWavenumberUnchecked } from './dispersion';
 import { fillCoefficients } from './cpml';
-import { continuousReflection } from './continuous';
+import { continuousReflectionUnchecked } from './continuous';
 import { HushInputError } from './errors';
 import { resolveDesign, type ResolvedDesign } from './grading';
 import { createWorkspace, fillFactors, reflectionKernel, type ReflectionWorkspace } from './reflection';
@@ -168,7 +168,7 @@ export function sampleGrid(ppwMin: number, ppwMax: number, angleMaxDeg: number, 
   for (let i = 0; i < f; i++) {
     for (let j = 0; j < a; j++) {
       const th = (angleDeg[j] * Math.PI) / 180;
-      const q = discreteWavenumber(ppw[i], courantMedium, angleDeg[j]);
+      const q = discreteWavenumberUnchecked(ppw[i], courantMedium, angleDeg[j]);
       const s = Math.sin((q * Math.sin(th)) / 2);
       sinHalfKt2[i * a + j] = s * s;
     }
@@ -245,7 +245,7 @@ export function worstReflection(
 function amplitudeAt(layers: number, courantMedium: number, ws: ReflectionWorkspace, ppw: number, angleDeg: number): number {
   const om = (2 * Math.PI * courantMedium) / ppw;
   const th = (angleDeg * Math.PI) / 180;
-  const q = discreteWavenumber(ppw, courantMedium, angleDeg);
+  const q = discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
   const sk = Math.sin((q * Math.sin(th)) / 2);
   fillFactors(ws.coef, om, ws.factors);
   reflectionKernel(ws.factors, layers, courantMedium, om, sk * sk, ws.out);
@@ -564,7 +564,7 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
     else failed = mid;
   }
   const { design: d, worst } = densePass(passed) as { design: ResolvedDesign; worst: Peak };
-  const cont = continuousReflection(d, rs.ppwMax, rs.angleMaxDeg);
+  const cont = continuousReflectionUnchecked(d, rs.ppwMax, rs.angleMaxDeg);
   return {
     layers: passed,
     order,
@@ -640,5 +640,7 @@ export function textbookStrength(target: number, layers: number, angleDeg = 0): 
   const R = inRange('target reflection', target, 0, 1, { loOpen: true, hiOpen: true });
   const N = wholeInRange('layers', layers, 1, MAX_LAYERS);
   const th = inRange('angle', angleDeg, 0, MAX_DESIGN_ANGLE_DEG, { unit: 'degrees' });
-  return Math.log(1 / R) / (1.6 * N * Math.cos((th * Math.PI) / 180));
+  // 1/R overflows for R below 1/Number.MAX_VALUE; there ln(1/R) = −ln R.
+  const inverse = 1 / R;
+  return (Number.isFinite(inverse) ? Math.log(inverse) : -Math.log(R)) / (1.6 * N * Math.cos((th * Math.PI) / 180));
 }

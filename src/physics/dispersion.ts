@@ -7,13 +7,18 @@
  *   (sin(ωΔt/2)/(vΔt))² = Σ_i (sin(k_i·Δ/2)/Δ)².
  */
 import { HushInputError } from './errors';
-import { finite, inRange } from './validate';
-import { MIN_COURANT } from './courant';
+import { finite, inRange, wholeInRange } from './validate';
+import { checkCourant, checkCourantMedium } from './courant';
 
 const DEG = Math.PI / 180;
 
 /** Longest wave accepted, in cells per wavelength (longer waves are quasi-static on any grid). */
 export const MAX_PPW = 1e6;
+
+/** Directions accepted by the dispersion functions, in degrees (any direction in the plane, one turn either way). */
+function checkAngle(angleDeg: unknown): number {
+  return inRange('angle', angleDeg, -360, 360, { unit: 'degrees' });
+}
 
 /** Right-hand side target T = sin²(ωΔt/2)/S_m² for a wave of `ppw` cells per wavelength. */
 function dispersionTarget(ppw: number, courantMedium: number): number {
@@ -37,7 +42,8 @@ function branchEnd(cosT: number, sinT: number): { qMax: number; gMax: number } {
  * relation above).
  */
 export function minimumResolvablePpw(courantMedium: number, angleDeg = 0): number {
-  const th = Math.abs(angleDeg) * DEG;
+  courantMedium = checkCourantMedium(courantMedium);
+  const th = Math.abs(checkAngle(angleDeg)) * DEG;
   const { gMax } = branchEnd(Math.abs(Math.cos(th)), Math.abs(Math.sin(th)));
   const x = courantMedium * Math.sqrt(gMax);
   // sin(πS_m/ppw) ≤ x; when x ≥ 1 only the temporal Nyquist limit ppw ≥ 2·S_m remains.
@@ -68,8 +74,17 @@ function quote2(v: number): string {
  * Magnitude q = |k̃|·Δ of the discrete wavevector of a plane wave of `ppw`
  * cells per wavelength travelling at `angleDeg` from the x axis, solving
  * sin²(q cosθ/2) + sin²(q sinθ/2) = sin²(πS_m/ppw)/S_m² on its first branch.
+ * Checks S_m (MIN_COURANT_MEDIUM ≤ S_m ≤ 1), the angle (−360° to 360°) and ppw (resolvable on
+ * this grid, at most MAX_PPW).
  */
 export function discreteWavenumber(ppw: number, courantMedium: number, angleDeg = 0): number {
+  const sm = checkCourantMedium(courantMedium);
+  const th = checkAngle(angleDeg);
+  return discreteWavenumberUnchecked(checkPpw('cells per wavelength', ppw, sm, th), sm, th);
+}
+
+/** `discreteWavenumber` without the checks, for loops over already checked samples (src/physics/internal.ts). */
+export function discreteWavenumberUnchecked(ppw: number, courantMedium: number, angleDeg = 0): number {
   const th = angleDeg * DEG;
   const c = Math.abs(Math.cos(th));
   const s = Math.abs(Math.sin(th));
@@ -104,16 +119,33 @@ export function discreteWavenumber(ppw: number, courantMedium: number, angleDeg 
 /**
  * Numerical phase velocity relative to the medium's wave speed, v_p/v = ω/(|k̃|v),
  * for `ppw` cells per (physical) wavelength, vacuum Courant number `courant`,
- * direction `angleDeg` and background index `index`.
+ * direction `angleDeg` and background index `index`, on a grid of `dimensions`
+ * dimensions whose Courant limit 1/√D the Courant number must respect. Default:
+ * the fewest dimensions that carry the wave, 1 along an axis (angle a multiple
+ * of 180°), 2 otherwise.
  * Check values: Schneider, Understanding the FDTD Method, chapter on dispersion (1-D, S = 0.5).
  */
-export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 0, index = 1): number {
+export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 0, index = 1, dimensions?: number): number {
   const n = inRange('background index', index, 1, 100);
-  const sm = inRange('Courant number', courant, MIN_COURANT, 1) / n;
-  inRange('angle', angleDeg, -360, 360, { unit: 'degrees' });
-  const p = checkPpw('cells per wavelength', ppw, sm, angleDeg);
-  const q = discreteWavenumber(p, sm, angleDeg);
+  const th = checkAngle(angleDeg);
+  const axial = th % 180 === 0;
+  const dims = dimensions === undefined ? (axial ? 1 : 2) : wholeInRange('dimensions', dimensions, 1, 3);
+  if (dims === 1 && !axial) {
+    throw new HushInputError('angle', `a 1-D grid carries waves along its axis only (got angle ${th} degrees)`);
+  }
+  const sm = checkCourant(courant, dims) / n;
+  const p = checkPpw('cells per wavelength', ppw, sm, th);
+  const q = discreteWavenumberUnchecked(p, sm, th);
   return (2 * Math.PI) / p / q;
+}
+
+/**
+ * Checks a wave given by its phase step and transverse wavenumber: 0 < ωΔt ≤ π
+ * (the temporal Nyquist limit) and |k_t| ≤ π radians per cell (the Brillouin zone).
+ */
+export function checkWaveStep(omegaDt: unknown, kt: unknown): void {
+  inRange('phase step ωΔt', omegaDt, 0, Math.PI, { loOpen: true, unit: 'radians per step' });
+  inRange('transverse wavenumber', kt, -Math.PI, Math.PI, { unit: 'radians per cell' });
 }
 
 /**
@@ -123,6 +155,8 @@ export function numericalPhaseVelocity(ppw: number, courant: number, angleDeg = 
  * Returns NaN-free values only for propagating waves; throws otherwise.
  */
 export function discreteAngle(omegaDt: number, kt: number, courantMedium: number): { kx: number; angleDeg: number } {
+  checkWaveStep(omegaDt, kt);
+  courantMedium = checkCourantMedium(courantMedium, kt === 0 ? 1 : 2);
   const st = Math.sin(omegaDt / 2) / courantMedium;
   const sk = Math.sin(kt / 2);
   const x = st * st - sk * sk;

@@ -4,7 +4,7 @@
  * so that σΔt/ε₀ = σ_norm·S_m with S_m = S/n the Courant number in the medium.
  */
 import { HushInputError } from './errors';
-import { ETA0, MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH } from './constants';
+import { ETA0, MIN_CELL_METRES, MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH } from './constants';
 import { finite, inRange, wholeInRange } from './validate';
 
 /** How σ grows with depth. */
@@ -47,13 +47,18 @@ export interface ResolvedDesign {
  * 3rd ed., ch. 7; Gedney 1996), in normalised form.
  */
 export function sigmaOptNorm(order: number): number {
+  return sigmaOptNormUnchecked(inRange('grading order', order, 0, MAX_ORDER));
+}
+
+/** `sigmaOptNorm` without the check, for the profile loops (src/physics/internal.ts). */
+export function sigmaOptNormUnchecked(order: number): number {
   return 0.8 * (order + 1);
 }
 
 /** σ_opt in S/m for grading order m, cell size Δ (m) and background index n: 0.8(m+1)/(η₀Δn). */
 export function sigmaOpt(order: number, cellMetres: number, index = 1): number {
   const m = inRange('grading order', order, 0, MAX_ORDER);
-  const d = inRange('cell size', cellMetres, 0, Infinity, { loOpen: true, unit: 'm' });
+  const d = inRange('cell size', cellMetres, MIN_CELL_METRES, 1, { unit: 'm' });
   const n = inRange('background index', index, 1, 100);
   return (0.8 * (m + 1)) / (ETA0 * d * n);
 }
@@ -92,19 +97,21 @@ export function profileAt(d: ResolvedDesign, u: number, out: Float64Array): void
     const sigma0 = (0.8 * d.strength * N * Math.log(g)) / (Math.pow(g, N) - 1);
     sigma = sigma0 * Math.pow(g, u * N);
   } else {
-    sigma = d.strength * sigmaOptNorm(d.order) * Math.pow(u, d.order);
+    sigma = d.strength * sigmaOptNormUnchecked(d.order) * Math.pow(u, d.order);
   }
   out[0] = sigma;
   out[1] = 1 + (d.kappaMax - 1) * (d.grading === 'geometric' ? u : Math.pow(u, d.order));
   out[2] = d.alphaMaxNorm * Math.pow(1 - u, d.alphaOrder);
 }
 
-/** Polynomial σ(u)/σ_max = u^m; exported for plots and tests. */
+/** Polynomial σ(u)/σ_max = u^m at depth u = depth/N ∈ [0, 1], order 0 ≤ m ≤ MAX_ORDER; exported for plots and tests. */
 export function polynomialProfile(u: number, order: number): number {
-  return Math.pow(u, order);
+  const x = inRange('depth (fraction of the absorber)', u, 0, 1);
+  return Math.pow(x, inRange('grading order', order, 0, MAX_ORDER));
 }
 
-/** Reversed polynomial α(u)/α_max = (1 − u)^{m_a}. */
+/** Reversed polynomial α(u)/α_max = (1 − u)^{m_a} at depth u ∈ [0, 1], order 0 ≤ m_a ≤ MAX_ORDER. */
 export function reversedPolynomialProfile(u: number, order: number): number {
-  return Math.pow(1 - u, order);
+  const x = inRange('depth (fraction of the absorber)', u, 0, 1);
+  return Math.pow(1 - x, inRange('alpha order', order, 0, MAX_ORDER));
 }

@@ -1,15 +1,47 @@
+/**
+ * The physics core's public API: every function here checks its inputs and
+ * throws HushInputError for what it cannot accept (never NaN, never a silent
+ * clamp). All types are exported. The unchecked buffer-level building blocks
+ * of the engines (coefficient and factor fills, the reflection kernel, sample
+ * grids, pulse planning, …) live in `./internal`.
+ */
 export * from './errors';
 export * from './constants';
 export * from './courant';
-export * from './dispersion';
-export * from './grading';
-export * from './cpml';
-export * from './continuous';
-export * from './reflection';
+export { MAX_PPW, minimumResolvablePpw, checkPpw, discreteWavenumber, numericalPhaseVelocity, discreteAngle } from './dispersion';
+export type * from './dispersion';
+export { sigmaOptNorm, sigmaOpt, resolveDesign, polynomialProfile, reversedPolynomialProfile } from './grading';
+export type * from './grading';
+export { cpmlCoefficients } from './cpml';
+export type * from './cpml';
+export { continuousReflection } from './continuous';
+export type * from './continuous';
+export { reflection, reflectionAtWavenumber } from './reflection';
+export type * from './reflection';
 export * from './budget';
 export * from './ripple';
-export * from './design';
-export * from './domain';
+export { MAX_DESIGN_ANGLE_DEG, designWork, designOptions, designAbsorber, clearDesignCache, textbookStrength } from './design';
+export type * from './design';
+export { FACE_NAMES, MAX_AXIS_CELLS, domainCounts } from './domain';
+export type * from './domain';
 export * from './ringdown';
-export * from './cost';
-export * from './fdtd';
+export { DEFAULT_ABSORBER_FACTOR, DEFAULT_RING_TARGET, MAX_NODES, MAX_STEPS, timeStep, stepCount, runTime, runCost } from './cost';
+export type * from './cost';
+export { CpmlLine, MAX_LINE_NODES } from './fdtd/line';
+export { TmzGrid2D, MAX_GRID_NODES } from './fdtd/tmz';
+export { EDGE_LEVEL_TARGET, EDGE_LEVEL_MIN, CUTOFF_LEVEL, SLOW_LEVEL } from './fdtd/pulse';
+export {
+  MeasurementCancelled,
+  isMeasurementCancelled,
+  FAR_LEFT_TERMINATION,
+  SPECTRUM_THRESHOLD,
+  MAX_CELL_UPDATES,
+  createMeasurement1D,
+  createMeasurement2D,
+  runInChunks,
+  measureReflection1D,
+  measureReflection2D,
+  measureReflection1DSync,
+  measureReflection2DSync,
+} from './fdtd/measure';
+export type * from './fdtd';

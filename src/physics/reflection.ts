@@ -14,9 +14,9 @@
  */
 import { allocateCoefficients, fillCoefficients, type CpmlCoefficients } from './cpml';
 import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
-import { DEFAULT_COURANT, checkCourant } from './courant';
-import { checkPpw, discreteWavenumber } from './dispersion';
-import { continuousReflection } from './continuous';
+import { DEFAULT_COURANT, checkCourant, checkCourantMedium } from './courant';
+import { checkPpw, checkWaveStep, discreteWavenumberUnchecked } from './dispersion';
+import { continuousReflectionUnchecked } from './continuous';
 import { HushInputError } from './errors';
 import { MAX_LAYERS } from './constants';
 import { inRange } from './validate';
@@ -192,7 +192,7 @@ export function resolveWave(wave: WaveSpec): ResolvedWave {
   const courantMedium = courant / index;
   const ppw = checkPpw('cells per wavelength', wave.ppw, courantMedium, angleDeg);
   const omegaDt = (2 * Math.PI * courantMedium) / ppw;
-  const q = discreteWavenumber(ppw, courantMedium, angleDeg);
+  const q = discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
   const sk = Math.sin((q * Math.sin(angleDeg * DEG)) / 2);
   return { ppw, courant, courantMedium, index, angleDeg, omegaDt, sinHalfKt2: sk * sk };
 }
@@ -222,7 +222,7 @@ export function reflectionResolved(d: ResolvedDesign, w: ResolvedWave, ws: Refle
     phaseDeg: Math.atan2(im, re) / DEG,
     re,
     im,
-    continuous: continuousReflection(d, w.ppw, w.angleDeg),
+    continuous: continuousReflectionUnchecked(d, w.ppw, w.angleDeg),
   };
 }
 
@@ -239,6 +239,8 @@ export function reflection(design: AbsorberDesign, wave: WaveSpec): ReflectionRe
 /**
  * Reflection for a wave given directly by its phase step ωΔt and transverse
  * wavenumber k_t (radians per cell), as a periodic time-domain grid defines it.
+ * Checks 0 < ωΔt ≤ π, |k_t| ≤ π, and the Courant number in the medium against
+ * the 1-D limit (k_t = 0) or the 2-D limit 1/√2 (k_t ≠ 0 needs a second axis).
  */
 export function reflectionAtWavenumber(
   design: AbsorberDesign,
@@ -247,6 +249,8 @@ export function reflectionAtWavenumber(
   courantMedium: number,
 ): { re: number; im: number; amplitude: number } {
   const d = resolveDesign(design);
+  checkWaveStep(omegaDt, kt);
+  courantMedium = checkCourantMedium(courantMedium, kt === 0 ? 1 : 2);
   const sk = Math.sin(kt / 2);
   const st = Math.sin(omegaDt / 2) / courantMedium;
   if (!(st * st - sk * sk > 0 && st * st - sk * sk <= 1)) {

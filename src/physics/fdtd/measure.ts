@@ -22,7 +22,7 @@
 import { cpmlCoefficients } from '../cpml';
 import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from '../grading';
 import { DEFAULT_COURANT, checkCourant } from '../courant';
-import { checkPpw, discreteAngle, discreteWavenumber } from '../dispersion';
+import { checkPpw, discreteAngle, discreteWavenumberUnchecked } from '../dispersion';
 import { reflectionAtWavenumber } from '../reflection';
 import { HushInputError } from '../errors';
 import { inRange, wholeInRange } from '../validate';
@@ -403,7 +403,7 @@ export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions
 export function chooseTransverseMode(angleDeg: number, omegaDt: number, courantMedium: number): { cells: number; modes: number } {
   if (angleDeg === 0) return { cells: 1, modes: 0 };
   const ppw = (2 * Math.PI * courantMedium) / omegaDt;
-  const q = discreteWavenumber(ppw, courantMedium, angleDeg);
+  const q = discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
   const kt = q * Math.sin(angleDeg * DEG);
   let best = { cells: 0, modes: 0, err: Infinity };
   for (let m = 1; m <= 8; m++) {

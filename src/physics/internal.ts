@@ -1,0 +1,22 @@
+/**
+ * Unchecked building blocks of the physics core, for the time-domain engines,
+ * the benchmarks and the tests: buffer-level coefficient and factor fills, the
+ * reflection kernel and its workspaces, sample grids and the worst-case scan,
+ * profiles, cost-model constants, pulse planning, DTFTs. They trust their
+ * caller (resolved designs, checked grid quantities, buffers of the right
+ * size) and check nothing or only what they themselves define, so that hot
+ * loops pay for no checks; a bad input can give NaN or a wrong value. Front
+ * ends use the validated public API (`./index`, through src/plan) instead.
+ * Types live in the public barrel.
+ */
+export { allocateCoefficients, nodeCoefficients, fillCoefficients } from './cpml';
+export { allocateFactors, fillFactors, reflectionKernel, resolveWave, createWorkspace, reflectionResolved } from './reflection';
+export { worstReflection, sampleGrid, bestStrengthFor } from './design';
+export { profileAt, sigmaOptNormUnchecked } from './grading';
+export { attenuationIntegral, continuousReflectionUnchecked } from './continuous';
+export { discreteWavenumberUnchecked } from './dispersion';
+export { psiPerStretchedAxis } from './domain';
+export { haloValuesPerCell, bytesPerValue, blockSplit, defaultFieldsPerCell, defaultMaterialPerCell } from './cost';
+export { gaussianLevel, planPulse, fillPulse } from './fdtd/pulse';
+export { groupVelocityX, chooseTransverseMode, runToEnd } from './fdtd/measure';
+export { dtftAt } from './fdtd/dtft';
