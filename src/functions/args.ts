@@ -19,6 +19,9 @@
 import { HushInputError, quote } from '../plan/steps';
 import { parseAngle, parseFrequency, parseLength, parseNumber } from '../plan/units';
 
+/** Decimal notation only: Number("") is 0 and Number("0x10") is 16. */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 /** True for the ways Excel says "no value": null, undefined, "" and blank text. */
 export function isBlank(value: unknown): boolean {
   return value === null || value === undefined || (typeof value === 'string' && value.trim() === '');
@@ -46,7 +49,7 @@ function toNumber(field: string, value: unknown): number {
   if (typeof value === 'string') {
     const text = value.trim();
     // Number("") is 0 and Number("0x10") is 16: accept decimal notation only.
-    if (/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(text)) return Number(text);
+    if (DECIMAL.test(text)) return Number(text);
   }
   throw new HushInputError(field, `${field} must be a number (got ${describe(value)})`, 'value');
 }
@@ -128,13 +131,9 @@ export function numberListOrText(field: string, value: unknown, fallback?: numbe
  * `fallback` when omitted or blank.
  */
 export function optionalAngle(field: string, value: unknown, fallback?: number): number | undefined {
-  const v = singleValue(field, value);
-  if (isBlank(v)) return fallback;
-  if (typeof v === 'string' && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v.trim())) return parseAngle(field, v);
-  return toNumber(field, v);
+  return quantity(field, value, parseAngle, false, fallback);
 }
 
-const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /**
  * A quantity from a number (in the argument's own unit) or from text with a

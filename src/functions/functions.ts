@@ -33,7 +33,7 @@ import {
   type WaveSpec,
 } from '../plan/steps';
 import { OUTPUT_NAMES, planHeaderText, planToRow, type Plan } from '../plan';
-import { numberListOrText, optionalAngle, optionalChoice, optionalFraction, optionalNumber, requiredFraction, requiredFrequency, requiredLength, requiredNumber, valueList } from './args';
+import { isBlank, numberListOrText, optionalAngle, optionalChoice, optionalFraction, optionalNumber, requiredFraction, requiredFrequency, requiredLength, requiredNumber, valueList } from './args';
 import { DESIGN_COLUMNS } from './columns';
 import { worksheet } from './errors';
 import { asWorksheet, designOf, planOf } from './plans';
@@ -255,10 +255,8 @@ export function reflectionTable(
 /** True when an optional range argument was left out (null/undefined) or is one blank cell. */
 function isOmitted(v: unknown): boolean {
   if (v === null || v === undefined) return true;
-  const flat: unknown[] = [];
-  const walk = (x: unknown): void => (Array.isArray(x) ? x.forEach(walk) : void flat.push(x));
-  walk(v);
-  return flat.every((x) => x === null || x === undefined || (typeof x === 'string' && x.trim() === ''));
+  const blank = (x: unknown): boolean => (Array.isArray(x) ? x.every(blank) : isBlank(x));
+  return blank(v);
 }
 
 /**

@@ -241,13 +241,19 @@ export function worstReflection(
   return out;
 }
 
+/** ωΔt whose node factors `ws.factors` holds for amplitudeAt (NaN: none); a climb in angle keeps ω and reuses them. */
+let factorsOmega = NaN;
+
 /** One exact evaluation at an arbitrary (ppw, angle); `ws.coef` must hold the design's coefficients. */
 function amplitudeAt(layers: number, courantMedium: number, ws: ReflectionWorkspace, ppw: number, angleDeg: number): number {
   const om = (2 * Math.PI * courantMedium) / ppw;
   const th = (angleDeg * Math.PI) / 180;
   const q = discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
   const sk = Math.sin((q * Math.sin(th)) / 2);
-  fillFactors(ws.coef, om, ws.factors);
+  if (om !== factorsOmega) {
+    fillFactors(ws.coef, om, ws.factors);
+    factorsOmega = om;
+  }
   reflectionKernel(ws.factors, layers, courantMedium, om, sk * sk, ws.out);
   layerEvaluations += layers;
   return Math.hypot(ws.out[0], ws.out[1]);
@@ -286,6 +292,7 @@ function refinedWorst(d: ResolvedDesign, dense: SampleGrid, courantMedium: numbe
     }
   }
   layerEvaluations += nf * na * d.layers;
+  factorsOmega = NaN; // ws.factors now holds the last dense frequency's factors, for this design only
   const peaks: number[] = [];
   for (let i = 0; i < nf; i++) {
     for (let j = 0; j < na; j++) {
