@@ -14,13 +14,13 @@ import {
   headerName,
   planFromInputs,
   planInputs,
-  planToRow,
+  planRecord,
   rowFromTable,
   type Plan,
   type PlanInputs,
   type ProjectRow,
 } from '../src/plan';
-import { ETA0 } from '../src/plan/steps';
+import { conductivityFromNorm } from '../src/plan/steps';
 import type { RowValues, TableSchema } from '../src/workbook/types';
 
 export type { Plan, PlanInputs, ProjectRow };
@@ -62,8 +62,7 @@ export const CFS_RELEVANT_PPW = 40;
  * ω_norm = 2π/ppw (physics.md §3), so α_norm = π/ppw_long.
  */
 export function suggestedAlphaMax(plan: Plan): number {
-  const alphaNorm = Math.PI / plan.grid.ppwLong;
-  return alphaNorm / (ETA0 * plan.inputs.cell * plan.inputs.index);
+  return conductivityFromNorm(Math.PI / plan.grid.ppwLong, plan.inputs.cell, plan.inputs.index);
 }
 
 /** The CFS α values (S/m) to compare for this study: the study's own, and the other choice when it matters. */
@@ -109,9 +108,9 @@ export function optionPlans(study: Plan): OptionPlan[] {
 
 /** The output values of a plan by column name; blanks where the plan has no value (so stale values are cleared). */
 export function outputValues(plan: Plan): RowValues {
-  const row = planToRow(plan);
+  const record = planRecord(plan);
   const out: RowValues = {};
-  OUTPUT_NAMES.forEach((n, k) => (out[n] = row[k] ?? ''));
+  for (const n of OUTPUT_NAMES) out[n] = record[n] ?? '';
   return out;
 }
 
@@ -123,9 +122,4 @@ export function inputUnit(name: string): string {
 /** True for a plan input column (header text compared as the plan compares it). */
 export function isInputField(name: string): boolean {
   return INPUT_NAMES.includes(headerName(name));
-}
-
-/** Output column names. */
-export function outputNames(): readonly string[] {
-  return OUTPUT_NAMES;
 }

@@ -7,8 +7,7 @@
  * in an in-page table. The logic below is the same for both (src/workbook).
  */
 import { MODEL_VERSION, type AbsorberDesign } from '../src/plan/steps';
-import { parseCsv } from '../src/plan/csv';
-import { APP_VERSION } from '../src/functions/version';
+import { APP_VERSION, parseCsv } from '../src/plan';
 import { MemoryWorkbook } from '../src/workbook/memory';
 import { OfficeWorkbook } from '../src/workbook/office';
 import type { CellValue, SelectedRow, Workbook } from '../src/workbook/types';

@@ -63,7 +63,7 @@ describe('hush cost', () => {
     expect((await run(['cost', '--cells', '10,10', '--layers', '2', '--faces', 'z-'])).code).toBe(2);
     const r = await run(['cost', '--cells', 'ten', '--layers', '2']);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--cells must be 1 to 3 whole numbers/);
+    expect(r.err).toMatch(/cells must be whole numbers separated by commas/);
   });
 });
 
@@ -138,10 +138,10 @@ describe('hush plan', () => {
     const out = join(dir, 'mixed.json');
     const r = await run(['plan', file, '--out', out]);
     expect(r.code).toBe(1);
-    expect(r.err).toMatch(/row 3: band_short must be a length or a frequency \(got 5 kg\)/);
+    expect(r.err).toMatch(/row 3: band_short must be a wavelength or a frequency such as 1550 nm or 193 THz \(got "5 kg"\)/);
     const j = JSON.parse(readFileSync(out, 'utf8'));
     expect(j.rows.map((x: { failed: boolean }) => x.failed)).toEqual([false, true, false]);
-    expect(j.rows[1].outputs.notes).toBe('error: band_short must be a length or a frequency (got 5 kg)');
+    expect(j.rows[1].outputs.notes).toBe('error: band_short must be a wavelength or a frequency such as 1550 nm or 193 THz (got "5 kg")');
     expect(typeof j.rows[2].outputs.layers).toBe('number');
     expect(j.rows[1].inputs.band_short).toBe('5 kg');
     // The per-cell constants of the cost model travel with the plan (xlsx: its "about" sheet).

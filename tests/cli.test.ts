@@ -22,17 +22,17 @@ describe('hush reflect', () => {
     expect(j.continuous).toBeCloseTo(Math.exp(-1.6 * 12), 15);
   });
   it('normalises --alpha-max (S/m) with --cell: α_norm = α·η₀·Δ·n (physics.md §3)', async () => {
-    const r = await run(['reflect', '--layers', '8', '--order', '3', '--alpha-max', '10', '--cell', '1e-4', '--ppw', '30', '--index', '2', '--json']);
+    const r = await run(['reflect', '--layers', '8', '--order', '3', '--alpha-max', '10', '--cell', '1e-4 m', '--ppw', '30', '--index', '2', '--json']);
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out).alpha_max_norm).toBeCloseTo(10 * 376.730313668 * 1e-4 * 2, 6);
   });
   for (const [name, argv, msg] of [
     ['missing --ppw', ['reflect', '--layers', '8', '--order', '3'], /--ppw is required/],
     ['unknown option', ['reflect', '--layers', '8', '--order', '3', '--ppw', '20', '--colour', 'red'], /unknown option --colour/],
-    ['not a number', ['reflect', '--layers', 'ten', '--order', '3', '--ppw', '20'], /--layers must be a number/],
+    ['not a number', ['reflect', '--layers', 'ten', '--order', '3', '--ppw', '20'], /layers must be a whole number \(got "ten"\)/],
     ['N < 1', ['reflect', '--layers', '0', '--order', '3', '--ppw', '20'], /layers must be a whole number from 1 to 200/],
     ['alpha without cell', ['reflect', '--layers', '8', '--order', '3', '--ppw', '20', '--alpha-max', '5'], /needs --cell/],
-    ['angle 90', ['reflect', '--layers', '8', '--order', '3', '--ppw', '20', '--angle', '90'], /less than 90 degrees/],
+    ['angle 90', ['reflect', '--layers', '8', '--order', '3', '--ppw', '20', '--angle', '90'], /angle must be at least 0° and less than 90° \(got 90\)/],
   ] as [string, string[], RegExp][]) {
     it(`bad arguments (${name}): one-line message, exit code 2`, async () => {
       const r = await run(argv);
@@ -53,7 +53,7 @@ describe('hush budget', () => {
   it('bad input exits 2', async () => {
     expect((await run(['budget', '--intensity-error', '0.01', '--share', '0'])).code).toBe(2);
     expect((await run(['budget'])).code).toBe(2);
-    expect((await run(['budget', '--intensity-error', '0.01', '--phase', 'lucky'])).err).toMatch(/phase must be "worst" or "random"/);
+    expect((await run(['budget', '--intensity-error', '0.01', '--phase', 'lucky'])).err).toMatch(/phase must be one of worst, random \(got "lucky"\)/);
   });
 });
 

@@ -12,6 +12,7 @@ import { afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { clearDesignCache, designAbsorber, HushInputError } from '../src/physics';
 import { clearPlanCache, planHeaderText, planRow, planToRow, rowFromTable, OUTPUT_NAMES } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
+import { readInput } from '../src/plan/fields';
 import { cells, cost, design, designHeader, layers, memory, plan, planHeader, runtime, steps } from '../src/functions/functions';
 import { clearWorksheetMemo, tableRow, worksheetMemoSize } from '../src/functions/plans';
 import { createScheduler, scheduler } from '../src/functions/scheduler';
@@ -102,21 +103,21 @@ describe('HUSH.LAYERS and HUSH.DESIGN', () => {
   });
 
   it('input the core refuses is #NUM! with its message; wrong types are #VALUE!', async () => {
-    expect(await errorOf(layers, 0, 20)).toEqual(refusal(() => designAbsorber({ target: 0, ppwMin: 20 })));
+    expect(await errorOf(layers, 0, 20)).toEqual(refusal(() => readInput('target', 0)));
     expect(await errorOf(layers, 1e-3, 2)).toEqual(refusal(() => designAbsorber({ target: 1e-3, ppwMin: 2 })));
     expect(await errorOf(layers, 1e-3, 20, 10)).toEqual(refusal(() => designAbsorber({ target: 1e-3, ppwMin: 20, ppwMax: 10 })));
     expect((await errorOf(design, 1e-3, 20, null, 89)).code).toBe('#NUM!');
-    expect(await errorOf(layers, 1e-3, 20, null, null, [[11]])).toEqual(refusal(() => designAbsorber({ target: 1e-3, ppwMin: 20, orders: [11] })));
+    expect(await errorOf(layers, 1e-3, 20, null, null, [[11]])).toEqual(refusal(() => readInput('orders', 11)));
     const infeasible = refusal(() => designAbsorber({ target: 1e-12, ppwMin: 4, angleMaxDeg: 85 }));
     expect(infeasible.message).toMatch(/^no design up to 200 layers/);
     expect(await errorOf(layers, 1e-12, 4, null, 85)).toEqual(infeasible);
-    expect(await errorOf(layers, 1e-3, 20, null, '5 kg')).toMatchObject({ code: '#VALUE!', message: expect.stringMatching(/^largest angle must be an angle/) });
+    expect(await errorOf(layers, 1e-3, 20, null, '5 kg')).toMatchObject({ code: '#VALUE!', message: expect.stringMatching(/^angle_max must be an angle/) });
     expect(await errorOf(layers, 1e-3, 20, null, null, '2,x')).toEqual({
       code: '#VALUE!',
-      message: 'grading orders must be numbers, as a range or as text such as "2,3,4" (got "x")',
+      message: 'orders must be a list of numbers such as 2, 3, 4 (got "2,x")',
     });
-    expect(await errorOf(layers, null, 20)).toEqual({ code: '#VALUE!', message: 'target reflection is required' });
-    expect(await errorOf(design, [[1e-3, 1e-4]], 20)).toEqual({ code: '#VALUE!', message: 'target reflection must be a single value, not a range of 1×2 cells' });
+    expect(await errorOf(layers, null, 20)).toEqual({ code: '#VALUE!', message: 'target is required (required amplitude reflection |r| per face)' });
+    expect(await errorOf(design, [[1e-3, 1e-4]], 20)).toEqual({ code: '#VALUE!', message: 'target must be a single value, not a range of 1×2 cells' });
   });
 
   it('HUSH.DESIGN_HEADER names every column of HUSH.DESIGN, sharing the plan header text where the columns are the same', async () => {

@@ -9,11 +9,9 @@ import {
   MODEL_VERSION,
   SPEED_OF_LIGHT,
   HushInputError,
-  intensityErrorFromAmplitude,
   reflection,
   reflectionFromRipple,
   requiredAmplitude,
-  rippleFromReflection,
 } from '../src/physics';
 import {
   errorFromReflection,
@@ -25,8 +23,9 @@ import {
   ripple,
   rippleSource,
 } from '../src/functions/functions';
-import { isBlank, numberList, optionalChoice, optionalNumber, requiredNumber, singleValue } from '../src/functions/args';
+import { arg, isBlank, listArg, requiredArg, singleValue } from '../src/functions/args';
 import { toWorksheetError } from '../src/functions/errors';
+import { readInput } from '../src/plan/fields';
 import pkg from '../package.json';
 
 class StubWorksheetError extends Error {
@@ -68,7 +67,12 @@ function expectRelative(actual: number, expected: number, tolerance = 1e-13): vo
   expect(Math.abs(actual / expected - 1)).toBeLessThan(tolerance);
 }
 
-/** What the core says about the same input: the worksheet shows the core's message, not its own. */
+/** What the field registry says about the same value: the worksheet, the table and the command line all show its message. */
+function registryRefusal(field: string, value: unknown): { code: string; message: string } {
+  return coreRefusal(() => readInput(field, value));
+}
+
+/** What the core says about an input that passed the registry (a cross-field check): the worksheet shows the core's message. */
 function coreRefusal(compute: () => unknown): { code: string; message: string } {
   try {
     compute();
@@ -130,35 +134,35 @@ describe('HUSH.NEEDED_REFLECTION', () => {
 
   it('a missing required argument is #VALUE! naming it', () => {
     for (const blank of [null, undefined, '']) {
-      expect(errorOf(neededReflection, blank)).toEqual({ code: '#VALUE!', message: 'intensity error is required' });
+      expect(errorOf(neededReflection, blank)).toEqual({ code: '#VALUE!', message: 'intensity_error is required (tolerated relative intensity error at the monitor)' });
     }
   });
 
   it('text, TRUE and ranges where one value belongs are #VALUE!', () => {
-    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: 'intensity error must be a number or a percentage such as "1%" (got "one percent")' });
+    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: 'intensity_error must be a number or a percentage such as 0.01 or 1% (got "one percent")' });
     expect(errorOf(neededReflection, '0x10').code).toBe('#VALUE!');
-    expect(errorOf(neededReflection, true)).toEqual({ code: '#VALUE!', message: 'intensity error must be a number (got TRUE)' });
+    expect(errorOf(neededReflection, true)).toEqual({ code: '#VALUE!', message: 'intensity_error must be a number or text (got TRUE)' });
     expect(errorOf(neededReflection, [[0.01, 0.02]])).toEqual({
       code: '#VALUE!',
-      message: 'intensity error must be a single value, not a range of 1×2 cells',
+      message: 'intensity_error must be a single value, not a range of 1×2 cells',
     });
-    expect(errorOf(neededReflection, 0.01, 1, 1, 'best')).toEqual({ code: '#VALUE!', message: 'phase must be "worst" or "random" (got "best")' });
+    expect(errorOf(neededReflection, 0.01, 1, 1, 'best')).toEqual({ code: '#VALUE!', message: 'phase must be one of worst, random (got "best")' });
     expect(errorOf(neededReflection, 0.01, 1, 1, 3).code).toBe('#VALUE!');
   });
 
   it('numbers outside the model are #NUM! with the core message (an empty cell passed as 0 included)', () => {
     const cases: [unknown[], () => unknown][] = [
-      [[0], () => requiredAmplitude({ intensityError: 0 })],
-      [[2], () => requiredAmplitude({ intensityError: 2 })],
-      [[0.01, 0], () => requiredAmplitude({ intensityError: 0.01, coupling: 0 })],
-      [[0.01, 1, 1.5], () => requiredAmplitude({ intensityError: 0.01, faces: 1.5 })],
+      [[0], () => readInput('intensity_error', 0)],
+      [[2], () => readInput('intensity_error', 2)],
+      [[0.01, 0], () => readInput('coupling', 0)],
+      [[0.01, 1, 1.5], () => readInput('faces_seen', 1.5)],
     ];
     for (const [args, core] of cases) {
       const expected = coreRefusal(core);
       expect(expected.code).toBe('#NUM!');
       expect(errorOf(neededReflection, ...args)).toEqual(expected);
     }
-    expect(errorOf(neededReflection, 0.01, 1, 1.5).message).toMatch(/^faces /);
+    expect(errorOf(neededReflection, 0.01, 1, 1.5).message).toMatch(/^faces_seen /);
   });
 });
 
@@ -175,9 +179,9 @@ describe('HUSH.ERROR_FROM_REFLECTION', () => {
   });
 
   it('|r| ≥ 1 is #NUM!; |r| = "" is #VALUE! (required)', () => {
-    expect(errorOf(errorFromReflection, 1)).toEqual(coreRefusal(() => intensityErrorFromAmplitude(1)));
+    expect(errorOf(errorFromReflection, 1)).toEqual(registryRefusal('amplitude', 1));
     expect(errorOf(errorFromReflection, 1).code).toBe('#NUM!');
-    expect(errorOf(errorFromReflection, '')).toEqual({ code: '#VALUE!', message: 'amplitude reflection is required' });
+    expect(errorOf(errorFromReflection, '')).toEqual({ code: '#VALUE!', message: 'amplitude is required (amplitude reflection |r| of one face (not the power |r|²))' });
   });
 });
 
@@ -222,11 +226,11 @@ describe('HUSH.REFLECTION and HUSH.REFLECTION_CONTINUOUS', () => {
   });
 
   it('missing or non-numeric required arguments are #VALUE!', () => {
-    expect(errorOf(reflectionExact, 10, 3, null)).toEqual({ code: '#VALUE!', message: 'cells per wavelength is required' });
-    expect(errorOf(reflectionExact, 'ten', 3, 20)).toEqual({ code: '#VALUE!', message: 'layers must be a number (got "ten")' });
+    expect(errorOf(reflectionExact, 10, 3, null)).toEqual({ code: '#VALUE!', message: 'ppw is required (cells per wavelength in the background medium at this frequency)' });
+    expect(errorOf(reflectionExact, 'ten', 3, 20)).toEqual({ code: '#VALUE!', message: 'layers must be a whole number (got "ten")' });
     expect(errorOf(reflectionContinuous, 10, [[3], [4]], 20)).toEqual({
       code: '#VALUE!',
-      message: 'grading order must be a single value, not a range of 2×1 cells',
+      message: 'order must be a single value, not a range of 2×1 cells',
     });
   });
 });
@@ -245,9 +249,9 @@ describe('unit strings and percentages where a quantity has a unit', () => {
 
   it('wrong units are #VALUE! naming the argument and what it takes', () => {
     expect(errorOf(ripple, 0.001, '5 kg')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^distance must be a length/) });
-    expect(errorOf(rippleSource, 0.004, '3 m')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^ripple period must be a frequency/) });
+    expect(errorOf(rippleSource, 0.004, '3 m')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^period must be a frequency/) });
     expect(errorOf(reflectionExact, 8, 3, 40, '3 m')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^angle must be an angle/) });
-    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^intensity error must be a number or a percentage such as "1%"/) });
+    expect(errorOf(neededReflection, 'one percent')).toEqual({ code: '#VALUE!', message: expect.stringMatching(/^intensity_error must be a number or a percentage such as 0.01 or 1%/) });
   });
 });
 
@@ -262,9 +266,9 @@ describe('HUSH.REFLECTION_TABLE', () => {
   });
 
   it('refuses bad values and oversized ranges with the argument named', () => {
-    expect(errorOf(reflectionTable, 10, 3, [['x']])).toEqual({ code: '#VALUE!', message: 'cells per wavelength must be a number (got "x")' });
-    expect(errorOf(reflectionTable, 10, 3, [[]])).toEqual({ code: '#VALUE!', message: 'cells per wavelength needs at least one value' });
-    expect(errorOf(reflectionTable, 10, 3, [Array(501).fill(20)])).toEqual({ code: '#VALUE!', message: 'cells per wavelength takes at most 500 values (got 501)' });
+    expect(errorOf(reflectionTable, 10, 3, [['x']])).toEqual({ code: '#VALUE!', message: 'ppw must be a number (got "x")' });
+    expect(errorOf(reflectionTable, 10, 3, [[]])).toEqual({ code: '#VALUE!', message: 'ppw_list needs at least one value' });
+    expect(errorOf(reflectionTable, 10, 3, [Array(501).fill(20)])).toEqual({ code: '#VALUE!', message: 'ppw_list takes at most 500 values (got 501)' });
     expect(errorOf(reflectionTable, 10, 3, [[20]], [[0, 95]]).code).toBe('#NUM!');
   });
 });
@@ -296,12 +300,12 @@ describe('HUSH.RIPPLE and HUSH.RIPPLE_SOURCE', () => {
   });
 
   it('impossible inputs are #NUM!, missing ones #VALUE!', () => {
-    expect(errorOf(ripple, 0.001, 0)).toEqual(coreRefusal(() => rippleFromReflection(0.001, 0)));
+    expect(errorOf(ripple, 0.001, 0)).toEqual(registryRefusal('distance', 0));
     expect(errorOf(ripple, 0.001, 0).code).toBe('#NUM!');
-    expect(errorOf(rippleSource, 4, 1e9)).toEqual(coreRefusal(() => reflectionFromRipple(4, 1e9)));
+    expect(errorOf(rippleSource, 4, 1e9)).toEqual(registryRefusal('peak_to_peak', 4));
     expect(errorOf(rippleSource, 2, 1e9, 1, 0.25)).toEqual(coreRefusal(() => reflectionFromRipple(2, 1e9, 1, 0.25)));
     expect(errorOf(rippleSource, 2, 1e9, 1, 0.25).code).toBe('#NUM!');
-    expect(errorOf(ripple, 0.001, '')).toEqual({ code: '#VALUE!', message: 'distance is required' });
+    expect(errorOf(ripple, 0.001, '')).toEqual({ code: '#VALUE!', message: 'distance is required (distance between the boundary and the other reflector)' });
   });
 });
 
@@ -336,29 +340,31 @@ describe('argument normalisation (src/functions/args.ts)', () => {
     expect(() => singleValue('x', [[1], [2]])).toThrow('x must be a single value, not a range of 2×1 cells');
   });
 
-  it('numbers: decimal text only, defaults only for blanks', () => {
-    expect(requiredNumber('x', '-.5e+2')).toBe(-50);
-    expect(optionalNumber('x', null, 3)).toBe(3);
-    expect(optionalNumber('x', '', 3)).toBe(3);
-    expect(optionalNumber('x', 0, 3)).toBe(0);
-    expect(optionalNumber('x', undefined)).toBeUndefined();
-    expect(() => requiredNumber('x', '1,5')).toThrow('x must be a number (got "1,5")');
-    expect(() => requiredNumber('x', 'Infinity')).toThrow(HushInputError);
-    expect(() => requiredNumber('x', { type: 'Error' })).toThrow('x must be a number (got an error or object value)');
+  it('numbers: decimal text only, blanks are omitted (the registry reads the rest)', () => {
+    expect(requiredArg('strength', '.5e+0')).toBe(0.5);
+    expect(arg('strength', null)).toBeUndefined();
+    expect(arg('strength', '')).toBeUndefined();
+    expect(arg('strength', [['  ']])).toBeUndefined();
+    expect(() => arg('strength', 0)).toThrow('strength must be greater than 0 and at most 20 (got 0)');
+    expect(() => requiredArg('strength', '1,5')).toThrow('strength must be a number (got "1,5")');
+    expect(() => requiredArg('strength', 'Infinity')).toThrow(HushInputError);
+    expect(() => requiredArg('strength', { type: 'Error' })).toThrow('strength must be a number or text (got an error or object value)');
+    expect(() => requiredArg('strength', null)).toThrow(/strength is required/);
   });
 
-  it('choices match case-insensitively and fall back only when blank', () => {
-    expect(optionalChoice('phase', 'Worst', ['worst', 'random'] as const, 'random')).toBe('worst');
-    expect(optionalChoice('phase', null, ['worst', 'random'] as const, 'random')).toBe('random');
-    expect(() => optionalChoice('phase', 'both', ['worst', 'random'] as const, 'worst')).toThrow('phase must be "worst" or "random" (got "both")');
+  it('choices match case-insensitively; blank is omitted', () => {
+    expect(arg('phase', 'Worst')).toBe('worst');
+    expect(arg('phase', 'RANDOM')).toBe('random');
+    expect(arg('phase', null)).toBeUndefined();
+    expect(() => arg('phase', 'both')).toThrow('phase must be one of worst, random (got "both")');
   });
 
-  it('lists read ranges row by row, skip empty cells, and accept a single value', () => {
-    expect(numberList('orders', [[2, 3], [null, '4']])).toEqual([2, 3, 4]);
-    expect(numberList('orders', [[2], [''], [4]])).toEqual([2, 4]);
-    expect(numberList('orders', 3)).toEqual([3]);
-    expect(numberList('orders', [['', null]], [2, 3, 4])).toEqual([2, 3, 4]);
-    expect(() => numberList('orders', null)).toThrow('orders needs at least one number');
-    expect(() => numberList('orders', [[2, 'x']])).toThrow('orders must be a number (got "x")');
+  it('lists read ranges row by row, skip empty cells, and accept text or a single value', () => {
+    expect(listArg('orders', [[2, 3], [null, '4']])).toEqual([2, 3, 4]);
+    expect(listArg('orders', [[2], [''], [4]])).toEqual([2, 4]);
+    expect(listArg('orders', 3)).toEqual([3]);
+    expect(listArg('orders', '2, 3 4')).toEqual([2, 3, 4]);
+    expect(listArg('orders', [['', null]])).toBeUndefined();
+    expect(() => listArg('orders', [[2, 'x']])).toThrow('orders must be a list of numbers such as 2, 3, 4 (got "2,x")');
   });
 });

@@ -13,6 +13,7 @@ import { readFileSync } from 'fs';
 import { createRequire } from 'module';
 import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { APP_VERSION } from '../src/plan/version';
 
 const requireHere = createRequire(__filename);
 // xml2js comes with office-addin-manifest (a dev dependency), which parses manifests with it.
@@ -83,6 +84,8 @@ describe('manifest.xml', () => {
   it('the manifest version follows package.json (n.n.n.0)', () => {
     const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
     expect(child(app, 'Version') as unknown as string).toBe(`${pkg.version}.0`);
+    // The version the command line and the worksheet report (src/plan/version.ts) is the package's.
+    expect(APP_VERSION).toBe(pkg.version);
   });
 
   it('requires the SharedRuntime and CustomFunctionsRuntime 1.1 sets', () => {

@@ -180,7 +180,7 @@ describe('planRow: budget → design → cost', () => {
   });
 
   it('bad input names the field', () => {
-    expect(() => planRow({ ...ring, band_short: '5 kg' })).toThrow('band_short must be a length or a frequency (got 5 kg)');
+    expect(() => planRow({ ...ring, band_short: '5 kg' })).toThrow('band_short must be a wavelength or a frequency such as 1550 nm or 193 THz (got "5 kg")');
     expect(() => planRow({ ...ring, band_short: '' })).toThrow(/band_short is required/);
     expect(() => planRow({ ...ring, cells_x: 100 })).toThrow('give size_x or cells_x, not both');
     expect(() => planRow({ ...ring, periodic: 'x', faces: 'x-, z+' })).toThrow('face x- is absorbing but axis x is periodic');

@@ -411,7 +411,7 @@ const tableCall: fc.Arbitrary<TableCall> = fc
     for (const [field, pick, wild] of subs) {
       const alts = alternatives[field];
       const value = pick < 0 ? wild : alts[pick % alts.length];
-      let k = header.indexOf(field);
+      const k = header.indexOf(field);
       if (k < 0) {
         header.push(field);
         values.push(value);

@@ -44,7 +44,6 @@ function mockExcel(fx: Fixture) {
     rowIndex: s.row,
     columnIndex: s.column,
     rowCount: s.rowCount ?? 1,
-    worksheet: { name: 'Sheet1' },
     getTables: () => ({ getCount: () => ({ value: fx.asTable ? 1 : 0 }), getFirst: () => ({ getRange: blockMock }) }),
     getSurroundingRegion: blockMock,
   });
@@ -57,7 +56,7 @@ function mockExcel(fx: Fixture) {
     },
   };
   const context = {
-    workbook: { getSelectedRange: () => selection, worksheets: { getItem: (n: string) => (n === 'Sheet1' ? sheet : undefined) } },
+    workbook: { getSelectedRange: () => selection, worksheets: { getItem: (n: string) => (n === 'Sheet1' ? sheet : undefined), getActiveWorksheet: () => make({ name: 'Sheet1' }) } },
     sync: async () => {
       // A write is a `values` assignment made since the last sync (the mock keeps the loaded array otherwise).
       for (const c of created) {

@@ -1,34 +1,40 @@
+import { amplitudeToDb } from '../plan/fields';
 import { intensityErrorFromAmplitude, requiredAmplitude, type PhaseModel } from '../plan/steps';
-import { numberOption, parseArgs, stringOption, UsageError } from './args';
-import { fmt, type CommandIO } from './io';
+import { UsageError } from './args';
+import { fmt, fmtDb, type CommandIO } from './io';
+import { Options, type CommandSpec } from './options';
 
-export const budgetUsage =
-  'hush budget (--intensity-error E | --amplitude R) [--coupling C=1] [--faces K=1] [--phase worst|random] [--share F=1] [--json]';
+export const budgetSpec: CommandSpec = {
+  name: 'budget',
+  summary: 'Tolerated intensity error → the amplitude reflection |r| each absorbing face may have (physics.md §1); with --amplitude, the inverse.',
+  fields: ['intensity_error', 'amplitude', 'coupling', 'faces_seen', 'phase', 'share'],
+  switches: { json: { help: 'print one line of JSON' } },
+  notes: ['Give exactly one of --intensity-error or --amplitude.'],
+};
 
 /** `hush budget`: tolerated intensity error ↔ required amplitude reflection per face. */
 export function budgetCommand(argv: string[], io: CommandIO): number {
-  const args = parseArgs(argv, {
-    'intensity-error': {}, amplitude: {}, coupling: {}, faces: {}, phase: {}, share: {}, json: { flag: true },
-  });
-  if (args.positional.length) throw new UsageError(`unexpected argument ${JSON.stringify(args.positional[0])}`);
-  const phase = (stringOption(args, 'phase') ?? 'worst') as PhaseModel;
+  const o = new Options(budgetSpec, argv);
   const options = {
-    coupling: numberOption(args, 'coupling', 1),
-    faces: numberOption(args, 'faces', 1),
-    phase,
-    share: numberOption(args, 'share', 1),
+    coupling: o.get<'fraction'>('coupling') ?? 1,
+    faces: o.get<'count'>('faces_seen') ?? 1,
+    phase: (o.get<'choice'>('phase') ?? 'worst') as PhaseModel,
+    share: o.get<'fraction'>('share') ?? 1,
   };
-  const eps = numberOption(args, 'intensity-error');
-  const amp = numberOption(args, 'amplitude');
+  const shown = { coupling: options.coupling, faces_seen: options.faces, phase: options.phase, share: options.share };
+  const eps = o.get<'fraction'>('intensity_error');
+  const amp = o.get<'reflection'>('amplitude');
   if ((eps === undefined) === (amp === undefined)) throw new UsageError('give exactly one of --intensity-error or --amplitude');
-  const json = args.options.has('json');
+  const json = o.flag('json');
   if (eps !== undefined) {
     const a = requiredAmplitude({ intensityError: eps, ...options });
-    if (json) io.out(JSON.stringify({ amplitude: a, power: a * a, intensity_error: eps, ...options }));
-    else io.out(`required amplitude reflection per face |r| ≤ ${fmt(a, 6)}  (power |r|² ≤ ${fmt(a * a)})`);
+    for (const n of o.notes) io.err(`hush budget: note: ${n}`);
+    if (json) io.out(JSON.stringify({ amplitude: a, amplitude_db: amplitudeToDb(a), power: a * a, intensity_error: eps, ...shown }));
+    else io.out(`required amplitude reflection per face |r| ≤ ${fmt(a, 6)} (${fmtDb(amplitudeToDb(a))}; power |r|² ≤ ${fmt(a * a)})`);
   } else {
-    const e = intensityErrorFromAmplitude(amp!, options);
-    if (json) io.out(JSON.stringify({ intensity_error: e, amplitude: amp, ...options }));
+    const e = intensityErrorFromAmplitude(amp as number, options);
+    for (const n of o.notes) io.err(`hush budget: note: ${n}`);
+    if (json) io.out(JSON.stringify({ intensity_error: e, amplitude: amp, ...shown }));
     else io.out(`intensity error caused: ${fmt(e, 6)} (${fmt(100 * e, 4)} %)`);
   }
   return 0;

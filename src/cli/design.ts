@@ -1,19 +1,18 @@
-import { designOptions } from '../plan/steps';
-import { numberOption, parseArgs, requiredNumber, stringOption, UsageError } from './args';
-import { fmt, type CommandIO } from './io';
+import { amplitudeToDb } from '../plan/fields';
+import { defaultCourant, designOptions, type DesignResult } from '../plan/steps';
+import { fmt, fmtDb, type CommandIO } from './io';
+import { Options, type CommandSpec } from './options';
 
-export const designUsage =
-  'hush design --target R --ppw-min P1 [--ppw-max P2=P1] [--angle-max DEG=0] [--courant C] [--dimensions D=3] [--index n=1] [--orders 2,3,4] [--kappa-max K=1] [--alpha-max-norm A=0] [--alpha-order MA=1] [--max-layers L=200] [--all] [--json]';
+export const designSpec: CommandSpec = {
+  name: 'design',
+  summary:
+    'The thinnest CPML absorber whose worst exact discrete reflection over the band (cells per wavelength from --ppw-min to --ppw-max) and angles (0 to --angle-max) meets --target, strength optimised per grading order and checked on a denser grid.',
+  fields: ['target', 'ppw_min', 'ppw_max', 'angle_max', 'courant', 'dimensions', 'index', 'orders', 'kappa_max', 'alpha_max_norm', 'alpha_order', 'max_layers'],
+  required: ['target', 'ppw_min'],
+  switches: { all: { help: 'list the thinnest design of every allowed grading order' }, json: { help: 'print JSON (one object, or a list with --all)' } },
+};
 
-function parseOrders(text: string | undefined): number[] | undefined {
-  if (text === undefined) return undefined;
-  const parts = text.split(',').map((t) => t.trim());
-  const out = parts.map((p) => (/^\d+(\.\d+)?$/.test(p) ? Number(p) : NaN));
-  if (out.some((x) => !Number.isFinite(x))) throw new UsageError(`--orders must be a comma-separated list of numbers such as 2,3,4 (got ${JSON.stringify(text)})`);
-  return out;
-}
-
-function toJson(d: ReturnType<typeof designOptions>[number]) {
+function toJson(d: DesignResult, courant: number) {
   return {
     layers: d.layers,
     order: d.order,
@@ -22,45 +21,47 @@ function toJson(d: ReturnType<typeof designOptions>[number]) {
     alpha_max_norm: d.alphaMaxNorm,
     alpha_order: d.alphaOrder,
     worst_amplitude: d.worstAmplitude,
+    worst_amplitude_db: amplitudeToDb(d.worstAmplitude),
     worst_ppw: d.worstPpw,
     worst_angle_deg: d.worstAngleDeg,
     continuous_amplitude: d.continuousAmplitude,
     thickness_cells: d.thicknessCells,
+    courant,
   };
 }
 
 /** `hush design`: the thinnest absorber meeting a target over a band and angles. */
 export function designCommand(argv: string[], io: CommandIO): number {
-  const args = parseArgs(argv, {
-    target: {}, 'ppw-min': {}, 'ppw-max': {}, 'angle-max': {}, courant: {}, dimensions: {}, index: {}, orders: {},
-    'kappa-max': {}, 'alpha-max-norm': {}, 'alpha-order': {}, 'max-layers': {}, all: { flag: true }, json: { flag: true },
-  });
-  if (args.positional.length) throw new UsageError(`unexpected argument ${JSON.stringify(args.positional[0])}`);
+  const o = new Options(designSpec, argv);
+  const dimensions = o.get<'count'>('dimensions') ?? 3;
+  const courant = o.get<'number'>('courant') ?? defaultCourant(dimensions);
   const options = designOptions({
-    target: requiredNumber(args, 'target'),
-    ppwMin: requiredNumber(args, 'ppw-min'),
-    ppwMax: numberOption(args, 'ppw-max'),
-    angleMaxDeg: numberOption(args, 'angle-max', 0),
-    courant: numberOption(args, 'courant'),
-    dimensions: numberOption(args, 'dimensions', 3),
-    index: numberOption(args, 'index', 1),
-    orders: parseOrders(stringOption(args, 'orders')),
-    kappaMax: numberOption(args, 'kappa-max'),
-    alphaMaxNorm: numberOption(args, 'alpha-max-norm'),
-    alphaOrder: numberOption(args, 'alpha-order'),
-    maxLayers: numberOption(args, 'max-layers'),
+    target: o.required<'reflection'>('target'),
+    ppwMin: o.required<'number'>('ppw_min'),
+    ppwMax: o.get<'number'>('ppw_max'),
+    angleMaxDeg: o.get<'angle'>('angle_max') ?? 0,
+    courant,
+    dimensions,
+    index: o.get<'number'>('index') ?? 1,
+    orders: o.get<'numbers'>('orders'),
+    kappaMax: o.get<'number'>('kappa_max'),
+    alphaMaxNorm: o.get<'number'>('alpha_max_norm'),
+    alphaOrder: o.get<'number'>('alpha_order'),
+    maxLayers: o.get<'count'>('max_layers'),
   });
-  const all = args.options.has('all');
-  if (args.options.has('json')) {
-    io.out(JSON.stringify(all ? options.map(toJson) : toJson(options[0])));
+  for (const n of o.notes) io.err(`hush design: note: ${n}`);
+  const all = o.flag('all');
+  if (o.flag('json')) {
+    io.out(JSON.stringify(all ? options.map((d) => toJson(d, courant)) : toJson(options[0], courant)));
     return 0;
   }
   const rows = all ? options : [options[0]];
-  io.out('layers  order  strength  worst |r|   at ppw  at angle  continuous |r|');
+  io.out('layers  order  strength  worst |r|  worst dB   at ppw  at angle  continuous |r|');
   for (const d of rows) {
     io.out(
-      `${String(d.layers).padStart(6)}  ${String(d.order).padStart(5)}  ${fmt(d.strength).padStart(8)}  ${fmt(d.worstAmplitude).padStart(9)}  ${fmt(d.worstPpw).padStart(7)}  ${(fmt(d.worstAngleDeg) + '°').padStart(8)}  ${fmt(d.continuousAmplitude).padStart(14)}`,
+      `${String(d.layers).padStart(6)}  ${String(d.order).padStart(5)}  ${fmt(d.strength).padStart(8)}  ${fmt(d.worstAmplitude).padStart(9)}  ${fmtDb(amplitudeToDb(d.worstAmplitude)).replace(' dB', '').padStart(8)}  ${fmt(d.worstPpw).padStart(7)}  ${(fmt(d.worstAngleDeg) + '°').padStart(8)}  ${fmt(d.continuousAmplitude).padStart(14)}`,
     );
   }
+  io.out(`exact on the grid (profiles sampled at each node's depth), ${dimensions}-D, Courant number ${fmt(courant, 6)}`);
   return 0;
 }

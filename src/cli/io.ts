@@ -21,6 +21,11 @@ export function fmt(x: number, digits = 4): string {
   return Number(x.toPrecision(digits)).toString();
 }
 
+/** A reflection in dB for a terminal: 4 significant digits, or "no dB value" for |r| = 0. */
+export function fmtDb(db: number | null): string {
+  return db === null ? 'no dB value (|r| = 0)' : `${fmt(db)} dB`;
+}
+
 /** An error message as one line of stderr: line breaks inside it (from text the user typed) are shown escaped. */
 export function oneLine(message: string): string {
   return message.replace(/\r/g, '\\r').replace(/\n/g, '\\n');

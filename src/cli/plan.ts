@@ -84,7 +84,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   const total = table.rows.length;
   table.rows.forEach((values, i) => {
     const row = rowFromTable(table.header, values);
-    const label = isBlank(row.study) ? `row ${i + 2}` : String(row.study).trim().replace(/\s+/g, ' ');
+    const label = typeof row.study !== "string" && typeof row.study !== "number" || isBlank(row.study) ? `row ${i + 2}` : String(row.study).trim().replace(/\s+/g, ' ');
     if (values.every(isBlank)) {
       planned.push({ values, outputs: null, failed: false });
     } else {

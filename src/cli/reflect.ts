@@ -1,47 +1,48 @@
-import { ETA0, reflection } from '../plan/steps';
-import { parseArgs, numberOption, requiredNumber, UsageError } from './args';
-import { fmt, type CommandIO } from './io';
+import { amplitudeToDb } from '../plan/fields';
+import { defaultCourant, reflection, toNormalisedConductivity } from '../plan/steps';
+import { UsageError } from './args';
+import { fmt, fmtDb, type CommandIO } from './io';
+import { Options, type CommandSpec } from './options';
 
-export const reflectUsage =
-  'hush reflect --layers N --order M [--strength S=1] [--kappa-max K=1] [--alpha-max A=0 --cell METRES] [--alpha-order MA=1] --ppw P [--courant C] [--dimensions D=3] [--angle DEG=0] [--index n=1] [--json]';
+export const reflectSpec: CommandSpec = {
+  name: 'reflect',
+  summary:
+    'Exact discrete amplitude reflection |r| of one CPML design at one frequency and angle, as the Yee grid sees it (exact for the grid convention of physics.md §3: profiles sampled at each node’s own depth), with the continuous-theory value beside it.',
+  fields: ['layers', 'order', 'strength', 'kappa_max', 'alpha_max', 'cell', 'alpha_max_norm', 'alpha_order', 'ppw', 'courant', 'dimensions', 'angle', 'index'],
+  required: ['layers', 'order', 'ppw'],
+  switches: { json: { help: 'print one line of JSON: amplitude, amplitude_db, phase_deg, continuous, alpha_max_norm, courant' } },
+  notes: ['--alpha-max (S/m) needs --cell to be normalised; or give --alpha-max-norm (α·η₀·Δ·n) directly.'],
+};
 
 /** `hush reflect`: exact discrete reflection of one design at one frequency and angle. */
 export function reflectCommand(argv: string[], io: CommandIO): number {
-  const args = parseArgs(argv, {
-    layers: {}, order: {}, strength: {}, 'kappa-max': {}, 'alpha-max': {}, cell: {}, 'alpha-order': {},
-    ppw: {}, courant: {}, dimensions: {}, angle: {}, index: {}, json: { flag: true },
-  });
-  if (args.positional.length) throw new UsageError(`unexpected argument ${JSON.stringify(args.positional[0])}`);
-  const index = numberOption(args, 'index', 1)!;
-  const alphaMax = numberOption(args, 'alpha-max', 0)!;
-  const cell = numberOption(args, 'cell');
-  if (alphaMax !== 0 && cell === undefined) throw new UsageError('--alpha-max (S/m) needs --cell METRES to normalise it');
-  if (cell !== undefined && !(cell > 0)) throw new UsageError(`--cell must be a positive length in metres (got ${cell})`);
-  if (alphaMax < 0) throw new UsageError(`--alpha-max must be at least 0 S/m (got ${alphaMax})`);
-  // α_norm = α·η₀·Δ·n (physics.md §3).
-  const alphaMaxNorm = cell === undefined ? 0 : alphaMax * ETA0 * cell * index;
-  if (!Number.isFinite(alphaMaxNorm)) throw new UsageError(`--alpha-max ${alphaMax} S/m with --cell ${cell} m and --index ${index} is out of range (α·η₀·Δ·n overflows)`);
-  const design = {
-    layers: requiredNumber(args, 'layers'),
-    order: requiredNumber(args, 'order'),
-    strength: numberOption(args, 'strength', 1),
-    kappaMax: numberOption(args, 'kappa-max', 1),
-    alphaMaxNorm,
-    alphaOrder: numberOption(args, 'alpha-order', 1),
-  };
-  const wave = {
-    ppw: requiredNumber(args, 'ppw'),
-    courant: numberOption(args, 'courant'),
-    dimensions: numberOption(args, 'dimensions', 3),
-    angleDeg: numberOption(args, 'angle', 0),
-    index,
-  };
-  const r = reflection(design, wave);
-  if (args.options.has('json')) {
-    io.out(JSON.stringify({ amplitude: r.amplitude, phase_deg: r.phaseDeg, continuous: r.continuous, alpha_max_norm: alphaMaxNorm }));
+  const o = new Options(reflectSpec, argv);
+  o.exclusive('alpha_max', 'alpha_max_norm');
+  const index = o.get<'number'>('index') ?? 1;
+  const dimensions = o.get<'count'>('dimensions') ?? 3;
+  const alphaMax = o.get<'conductivity'>('alpha_max');
+  const cell = o.get<'length'>('cell');
+  if (alphaMax !== undefined && alphaMax !== 0 && cell === undefined) throw new UsageError('--alpha-max (S/m) needs --cell (e.g. --cell 20nm) to normalise it, or give --alpha-max-norm');
+  const alphaMaxNorm = alphaMax !== undefined && cell !== undefined ? toNormalisedConductivity('alpha_max', alphaMax, cell, index) : (o.get<'number'>('alpha_max_norm') ?? 0);
+  const courant = o.get<'number'>('courant') ?? defaultCourant(dimensions);
+  const r = reflection(
+    {
+      layers: o.required<'count'>('layers'),
+      order: o.required<'number'>('order'),
+      strength: o.get<'number'>('strength'),
+      kappaMax: o.get<'number'>('kappa_max'),
+      alphaMaxNorm,
+      alphaOrder: o.get<'number'>('alpha_order'),
+    },
+    { ppw: o.required<'number'>('ppw'), courant, dimensions, angleDeg: o.get<'angle'>('angle') ?? 0, index },
+  );
+  for (const n of o.notes) io.err(`hush reflect: note: ${n}`);
+  if (o.flag('json')) {
+    io.out(JSON.stringify({ amplitude: r.amplitude, amplitude_db: amplitudeToDb(r.amplitude), phase_deg: r.phaseDeg, continuous: r.continuous, alpha_max_norm: alphaMaxNorm, courant }));
   } else {
-    io.out(`amplitude reflection |r| = ${fmt(r.amplitude)}  (phase ${fmt(r.phaseDeg)}°)`);
-    io.out(`continuous theory        = ${fmt(r.continuous)}  (ignores the grid)`);
+    io.out(`amplitude reflection |r| = ${fmt(r.amplitude)} (${fmtDb(amplitudeToDb(r.amplitude))}, phase ${fmt(r.phaseDeg)}°), exact on the grid (profiles sampled at each node's depth)`);
+    io.out(`continuous theory        = ${fmt(r.continuous)} (${fmtDb(amplitudeToDb(r.continuous))}; ignores the grid)`);
+    io.out(`Courant number ${fmt(courant, 6)} (vacuum), ${dimensions}-D grid`);
   }
   return 0;
 }

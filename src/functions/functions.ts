@@ -20,6 +20,7 @@
 import {
   HushInputError,
   MODEL_VERSION,
+  defaultCourant,
   intensityErrorFromAmplitude,
   reflection,
   reflectionFromRipple,
@@ -32,21 +33,19 @@ import {
   type PhaseModel,
   type WaveSpec,
 } from '../plan/steps';
-import { OUTPUT_NAMES, planHeaderText, planToRow, type Plan } from '../plan';
-import { isBlank, numberListOrText, optionalAngle, optionalChoice, optionalFraction, optionalNumber, requiredFraction, requiredFrequency, requiredLength, requiredNumber, valueList } from './args';
+import { OUTPUT_NAMES, planRecord, planHeaderText, type Plan } from '../plan';
+import { arg, isOmitted, listArg, requiredArg, valuesArg } from './args';
 import { DESIGN_COLUMNS } from './columns';
 import { worksheet } from './errors';
 import { asWorksheet, designOf, planOf } from './plans';
 import { APP_VERSION } from './version';
 
-const PHASES: readonly PhaseModel[] = ['worst', 'random'];
-
-function budgetOptions(coupling: unknown, faces: unknown, phase: unknown, share: unknown): BudgetOptions {
+function budgetOptions(coupling: unknown, faces_seen: unknown, phase: unknown, share: unknown): BudgetOptions {
   return {
-    coupling: optionalFraction('coupling', coupling),
-    faces: optionalNumber('faces', faces),
-    phase: optionalChoice('phase', phase, PHASES, 'worst'),
-    share: optionalFraction('share', share),
+    coupling: arg<'fraction'>('coupling', coupling),
+    faces: arg<'count'>('faces_seen', faces_seen),
+    phase: arg<'choice'>('phase', phase) as PhaseModel | undefined,
+    share: arg<'fraction'>('share', share),
   };
 }
 
@@ -56,24 +55,24 @@ function budgetOptions(coupling: unknown, faces: unknown, phase: unknown, share:
  * Example: =HUSH.NEEDED_REFLECTION(0.01, 1, 2, "random") → 0.00499993750273421
  * Example: =HUSH.NEEDED_REFLECTION("1%", "100%") → 0.00498756211208903
  * @customfunction NEEDED_REFLECTION
- * @param intensity_error Tolerated relative intensity error ε, greater than 0 and at most 1: a number (0.01) or a percentage as text ("1%").
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
- * @param [faces] Number of absorbing faces whose echoes reach the monitor, 1 to 6. Default 1.
- * @param [phase] "worst" (echoes add in phase) or "random" (RMS error, echoes add in quadrature). Default "worst".
- * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1 (a number or "50%"). Default 1.
+ * @param intensity_error Tolerated relative intensity error at the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-12, ≤ 1.
+ * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
+ * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
+ * @param [share] Share of the error budget given to the absorber: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
  * @returns Amplitude reflection |r| each face may have.
  */
 export function neededReflection(
   intensity_error: any,
   coupling?: any,
-  faces?: number,
-  phase?: string,
+  faces_seen?: any,
+  phase?: any,
   share?: any,
 ): number {
   return worksheet(() =>
     requiredAmplitude({
-      intensityError: requiredFraction('intensity error', intensity_error),
-      ...budgetOptions(coupling, faces, phase, share),
+      intensityError: requiredArg<'fraction'>('intensity_error', intensity_error),
+      ...budgetOptions(coupling, faces_seen, phase, share),
     }),
   );
 }
@@ -83,22 +82,22 @@ export function neededReflection(
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.005) → 0.010025
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.001, , , "random") → 0.00141421391592644
  * @customfunction ERROR_FROM_REFLECTION
- * @param amplitude Amplitude reflection |r| of one face, 0 ≤ |r| < 1 (not the power reflection |r|²); a number or a percentage as text ("0.5%").
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
- * @param [faces] Number of absorbing faces whose echoes reach the monitor, 1 to 6. Default 1.
- * @param [phase] "worst" (echoes add in phase) or "random" (RMS error, echoes add in quadrature). Default "worst".
- * @param [share] Share F of the error budget given to the absorber, 0 < F ≤ 1 (a number or "50%"); the result is the whole budget this uses up. Default 1.
+ * @param amplitude Amplitude reflection |r| of one face (not the power |r|²): an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); ≥ 0, < 1.
+ * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
+ * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
+ * @param [share] Share of the error budget given to the absorber: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
  * @returns Relative intensity error ε (0.01 means 1 %).
  */
 export function errorFromReflection(
   amplitude: any,
   coupling?: any,
-  faces?: number,
-  phase?: string,
+  faces_seen?: any,
+  phase?: any,
   share?: any,
 ): number {
   return worksheet(() =>
-    intensityErrorFromAmplitude(requiredFraction('amplitude reflection', amplitude), budgetOptions(coupling, faces, phase, share)),
+    intensityErrorFromAmplitude(requiredArg<'reflection'>('amplitude', amplitude), budgetOptions(coupling, faces_seen, phase, share)),
   );
 }
 
@@ -106,7 +105,7 @@ function absorberAndWave(
   layers: unknown,
   order: unknown,
   ppw: unknown,
-  angle_deg: unknown,
+  angle: unknown,
   strength: unknown,
   kappa_max: unknown,
   alpha_max_norm: unknown,
@@ -116,19 +115,20 @@ function absorberAndWave(
   dimensions: unknown,
 ): { design: AbsorberDesign; wave: WaveSpec } {
   const design: AbsorberDesign = {
-    layers: requiredNumber('layers', layers),
-    order: requiredNumber('grading order', order),
-    strength: optionalNumber('strength', strength),
-    kappaMax: optionalNumber('kappa max', kappa_max),
-    alphaMaxNorm: optionalNumber('alpha max (normalised)', alpha_max_norm),
-    alphaOrder: optionalNumber('alpha order', alpha_order),
+    layers: requiredArg<'count'>('layers', layers),
+    order: requiredArg<'number'>('order', order),
+    strength: arg<'number'>('strength', strength),
+    kappaMax: arg<'number'>('kappa_max', kappa_max),
+    alphaMaxNorm: arg<'number'>('alpha_max_norm', alpha_max_norm),
+    alphaOrder: arg<'number'>('alpha_order', alpha_order),
   };
+  const dims = arg<'count'>('dimensions', dimensions) ?? 3;
   const wave: WaveSpec = {
-    ppw: requiredNumber('cells per wavelength', ppw),
-    angleDeg: optionalAngle('angle', angle_deg),
-    courant: optionalNumber('Courant number', courant),
-    index: optionalNumber('background index', index),
-    dimensions: optionalNumber('dimensions', dimensions),
+    ppw: requiredArg<'number'>('ppw', ppw),
+    angleDeg: arg<'angle'>('angle', angle),
+    courant: arg<'number'>('courant', courant) ?? defaultCourant(dims),
+    index: arg<'number'>('index', index),
+    dimensions: dims,
   };
   return { design, wave };
 }
@@ -139,70 +139,70 @@ function absorberAndWave(
  * Example: =HUSH.REFLECTION(8, 3, 40, 45, 1, 5, 0.05) → 0.0000716646196867022
  * Example: =HUSH.REFLECTION(8, 3, 40, "45 deg", 1, 5, 0.05) → 0.0000716646196867022
  * @customfunction REFLECTION
- * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
- * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
- * @param ppw Cells per wavelength in the background medium at this frequency.
- * @param [angle_deg] Angle of incidence, 0 ≤ θ < 90 degrees: a number (degrees) or text with a unit ("0.5 rad"). Default 0.
- * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
- * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
- * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
- * @param [alpha_order] Order of the reversed α grading. Default 1.
- * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
- * @param [index] Background refractive index n, 1 to 100. Default 1.
- * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
+ * @param layers Absorber thickness N in cells: a whole number; ≥ 1, ≤ 200.
+ * @param order Polynomial grading order m of σ and κ (3 or 4 is usual): a number; ≥ 0, ≤ 10.
+ * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
+ * @param [angle] Angle of incidence: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn): a number; > 0, ≤ 20. Default 1.
+ * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
+ * @param [alpha_order] Order of the reversed α grading: a number; ≥ 0, ≤ 10. Default 1.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
  * @returns Amplitude reflection |r| (not the power reflection |r|²).
  */
 export function reflectionExact(
-  layers: number,
-  order: number,
-  ppw: number,
-  angle_deg?: any,
-  strength?: number,
-  kappa_max?: number,
-  alpha_max_norm?: number,
-  alpha_order?: number,
-  courant?: number,
-  index?: number,
-  dimensions?: number,
+  layers: any,
+  order: any,
+  ppw: any,
+  angle?: any,
+  strength?: any,
+  kappa_max?: any,
+  alpha_max_norm?: any,
+  alpha_order?: any,
+  courant?: any,
+  index?: any,
+  dimensions?: any,
 ): number {
   return worksheet(() => {
-    const { design, wave } = absorberAndWave(layers, order, ppw, angle_deg, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
     return reflection(design, wave).amplitude;
   });
 }
 
 /**
  * Continuous-theory amplitude reflection of the same absorber (ignores the grid; compare with HUSH.REFLECTION to see the discretisation reflection).
- * Example: =HUSH.REFLECTION_CONTINUOUS(10, 3, 20) → 0.000000112535174719259
+ * Example: =HUSH.REFLECTION_CONTINUOUS(10, 3, 20) → 1.12535174719259e-7
  * @customfunction REFLECTION_CONTINUOUS
- * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
- * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
- * @param ppw Cells per wavelength in the background medium at this frequency.
- * @param [angle_deg] Angle of incidence, 0 ≤ θ < 90 degrees: a number (degrees) or text with a unit ("0.5 rad"). Default 0.
- * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
- * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
- * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
- * @param [alpha_order] Order of the reversed α grading. Default 1.
- * @param [courant] Vacuum Courant number S = cΔt/Δ (checked, not used by the continuous model). Default 0.99/√3 = 0.571577.
- * @param [index] Background refractive index n, 1 to 100. Default 1.
- * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit. Default 3.
+ * @param layers Absorber thickness N in cells: a whole number; ≥ 1, ≤ 200.
+ * @param order Polynomial grading order m of σ and κ (3 or 4 is usual): a number; ≥ 0, ≤ 10.
+ * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
+ * @param [angle] Angle of incidence: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn): a number; > 0, ≤ 20. Default 1.
+ * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
+ * @param [alpha_order] Order of the reversed α grading: a number; ≥ 0, ≤ 10. Default 1.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
  * @returns Amplitude reflection |r| of continuous theory.
  */
 export function reflectionContinuous(
-  layers: number,
-  order: number,
-  ppw: number,
-  angle_deg?: any,
-  strength?: number,
-  kappa_max?: number,
-  alpha_max_norm?: number,
-  alpha_order?: number,
-  courant?: number,
-  index?: number,
-  dimensions?: number,
+  layers: any,
+  order: any,
+  ppw: any,
+  angle?: any,
+  strength?: any,
+  kappa_max?: any,
+  alpha_max_norm?: any,
+  alpha_order?: any,
+  courant?: any,
+  index?: any,
+  dimensions?: any,
 ): number {
   return worksheet(() => {
-    const { design, wave } = absorberAndWave(layers, order, ppw, angle_deg, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
     return reflection(design, wave).continuous;
   });
 }
@@ -214,35 +214,35 @@ const TABLE_SIDE_MAX = 500;
  * Exact reflection |r| of one design over lists of cells per wavelength and angles: spills a table with one row per ppw value and one column per angle (ranges or single values; blank cells skipped).
  * Example: =HUSH.REFLECTION_TABLE(10, 3, {20; 40}, {0, 45}) → {0.0000272370009192314, 0.0000184095775469776; 0.0000258712214847077, 0.000017881678895969}
  * @customfunction REFLECTION_TABLE
- * @param layers Absorber thickness N in cells, a whole number from 1 to 200.
- * @param order Polynomial grading order m of σ and κ, 0 to 10 (3 or 4 is usual).
+ * @param layers Absorber thickness N in cells: a whole number; ≥ 1, ≤ 200.
+ * @param order Polynomial grading order m of σ and κ (3 or 4 is usual): a number; ≥ 0, ≤ 10.
  * @param ppw_list Cells per wavelength in the background medium: a range or a single value, at most 500 values; one result row each.
  * @param [angles] Angles of incidence, 0 ≤ θ < 90 degrees: a range or a single value, numbers (degrees) or text with a unit ("0.5 rad"), at most 500 values; one result column each. Default 0.
- * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn). Default 1.
- * @param [kappa_max] κ at the back of the absorber, 1 to 100. Default 1.
- * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
- * @param [alpha_order] Order of the reversed α grading. Default 1.
- * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
- * @param [index] Background refractive index n, 1 to 100. Default 1.
- * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
+ * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn): a number; > 0, ≤ 20. Default 1.
+ * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
+ * @param [alpha_order] Order of the reversed α grading: a number; ≥ 0, ≤ 10. Default 1.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
  * @returns Amplitude reflection |r|, rows by cells per wavelength, columns by angle.
  */
 export function reflectionTable(
-  layers: number,
-  order: number,
+  layers: any,
+  order: any,
   ppw_list: any[][],
   angles?: any[][],
-  strength?: number,
-  kappa_max?: number,
-  alpha_max_norm?: number,
-  alpha_order?: number,
-  courant?: number,
-  index?: number,
-  dimensions?: number,
+  strength?: any,
+  kappa_max?: any,
+  alpha_max_norm?: any,
+  alpha_order?: any,
+  courant?: any,
+  index?: any,
+  dimensions?: any,
 ): number[][] {
   return worksheet(() => {
-    const ppws = valueList('cells per wavelength', ppw_list, requiredNumber, TABLE_SIDE_MAX);
-    const angleList = isOmitted(angles) ? [0] : valueList('angles', angles, (f, v) => optionalAngle(f, v) as number, TABLE_SIDE_MAX);
+    const ppws = valuesArg<'number'>('ppw_list', 'ppw', ppw_list, TABLE_SIDE_MAX);
+    const angleList = isOmitted(angles) ? [0] : valuesArg<'angle'>('angles', 'angle', angles, TABLE_SIDE_MAX);
     return ppws.map((ppw) =>
       angleList.map((angle) => {
         const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
@@ -252,32 +252,25 @@ export function reflectionTable(
   });
 }
 
-/** True when an optional range argument was left out (null/undefined) or is one blank cell. */
-function isOmitted(v: unknown): boolean {
-  if (v === null || v === undefined) return true;
-  const blank = (x: unknown): boolean => (Array.isArray(x) ? x.every(blank) : isBlank(x));
-  return blank(v);
-}
-
 /**
  * Spectral ripple caused by a reflection: spills a row {peak-to-peak relative intensity swing, ripple period in Hz} (swing 4c|r|, period c₀/(2·n_g·L)).
  * Example: =HUSH.RIPPLE(0.001, 0.1) → {0.004, 1498962290}
  * Example: =HUSH.RIPPLE(0.001, 0.1, 1.5, 0.5) → {0.002, 999308193.333333}
  * Example: =HUSH.RIPPLE("0.1%", "10 cm") → {0.004, 1498962290}
  * @customfunction RIPPLE
- * @param amplitude Amplitude reflection |r| of the boundary, 0 ≤ |r| < 1; a number or a percentage as text ("0.1%").
- * @param distance Distance L between the boundary and the other reflector (for example the monitor or the device): a number in metres or text with a unit ("10 cm", "25 um").
- * @param [group_index] Group index n_g of the medium in between, 1 to 100. Default 1.
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
+ * @param amplitude Amplitude reflection |r| of one face (not the power |r|²): an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); ≥ 0, < 1.
+ * @param distance Distance between the boundary and the other reflector: a length such as 20 nm or 0.02 um; a bare number is in m; ≥ 1e-12 m, ≤ 1000000 m.
+ * @param [group_index] Group index of the medium between the reflecting pair: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
  * @returns One row: peak-to-peak swing (relative), period (Hz).
  */
-export function ripple(amplitude: any, distance: any, group_index?: number, coupling?: any): number[][] {
+export function ripple(amplitude: any, distance: any, group_index?: any, coupling?: any): number[][] {
   return worksheet(() => {
     const r = rippleFromReflection(
-      requiredFraction('amplitude reflection', amplitude),
-      requiredLength('distance', distance),
-      optionalNumber('group index', group_index, 1),
-      optionalFraction('coupling', coupling, 1),
+      requiredArg<'reflection'>('amplitude', amplitude),
+      requiredArg<'length'>('distance', distance),
+      arg<'number'>('group_index', group_index) ?? 1,
+      arg<'fraction'>('coupling', coupling) ?? 1,
     );
     return [[r.peakToPeak, r.periodHz]];
   });
@@ -288,19 +281,19 @@ export function ripple(amplitude: any, distance: any, group_index?: number, coup
  * Example: =HUSH.RIPPLE_SOURCE(0.004, 1.5E9) → {0.001, 0.0999308193333333}
  * Example: =HUSH.RIPPLE_SOURCE("0.4%", "1.5 GHz") → {0.001, 0.0999308193333333}
  * @customfunction RIPPLE_SOURCE
- * @param peak_to_peak Observed peak-to-peak relative intensity swing, greater than 0 and less than 4; a number or a percentage as text ("0.4%").
- * @param period Observed ripple period in frequency: a number in Hz or text with a unit ("1.5 GHz").
- * @param [group_index] Group index n_g of the medium in between, 1 to 100. Default 1.
- * @param [coupling] Share c of the echo that reaches the monitor, 0 < c ≤ 1 (a number or "50%"). Default 1.
+ * @param peak_to_peak Observed peak-to-peak relative intensity swing: a number or a percentage (0.01 or 1%); > 0, < 4.
+ * @param period Observed ripple period in frequency: a frequency such as 193 THz or 1.5 GHz; a bare number is in Hz; ≥ 0.001 Hz, ≤ 1e+18 Hz.
+ * @param [group_index] Group index of the medium between the reflecting pair: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
  * @returns One row: amplitude reflection |r|, distance (m).
  */
-export function rippleSource(peak_to_peak: any, period: any, group_index?: number, coupling?: any): number[][] {
+export function rippleSource(peak_to_peak: any, period: any, group_index?: any, coupling?: any): number[][] {
   return worksheet(() => {
     const s = reflectionFromRipple(
-      requiredFraction('ripple peak-to-peak', peak_to_peak),
-      requiredFrequency('ripple period', period),
-      optionalNumber('group index', group_index, 1),
-      optionalFraction('coupling', coupling, 1),
+      requiredArg<'fraction'>('peak_to_peak', peak_to_peak),
+      requiredArg<'frequency'>('period', period),
+      arg<'number'>('group_index', group_index) ?? 1,
+      arg<'fraction'>('coupling', coupling) ?? 1,
     );
     return [[s.amplitude, s.distanceMetres]];
   });
@@ -325,10 +318,10 @@ function finiteCell(name: string, x: number | string): number | string {
 }
 
 function designSpec(
-  target_amplitude: unknown,
+  target: unknown,
   ppw_min: unknown,
   ppw_max: unknown,
-  angle_max_deg: unknown,
+  angle_max: unknown,
   orders: unknown,
   courant: unknown,
   index: unknown,
@@ -337,17 +330,16 @@ function designSpec(
   alpha_max_norm: unknown,
 ): DesignSpec {
   return {
-    target: requiredNumber('target reflection', target_amplitude),
-    ppwMin: requiredNumber('cells per wavelength (short end)', ppw_min),
-    ppwMax: optionalNumber('cells per wavelength (long end)', ppw_max),
-    angleMaxDeg: optionalAngle('largest angle', angle_max_deg),
-    // The core's default orders, stated here because a blank range arrives as cells, not as "omitted".
-    orders: numberListOrText('grading orders', orders, [2, 3, 4]),
-    courant: optionalNumber('Courant number', courant),
-    index: optionalNumber('background index', index),
-    dimensions: optionalNumber('dimensions', dimensions),
-    kappaMax: optionalNumber('kappa max', kappa_max),
-    alphaMaxNorm: optionalNumber('alpha max (normalised)', alpha_max_norm),
+    target: requiredArg<'reflection'>('target', target),
+    ppwMin: requiredArg<'number'>('ppw_min', ppw_min),
+    ppwMax: arg<'number'>('ppw_max', ppw_max),
+    angleMaxDeg: arg<'angle'>('angle_max', angle_max),
+    orders: listArg<'numbers'>('orders', orders),
+    courant: arg<'number'>('courant', courant) ?? defaultCourant(arg<'count'>('dimensions', dimensions) ?? 3),
+    index: arg<'number'>('index', index),
+    dimensions: arg<'count'>('dimensions', dimensions),
+    kappaMax: arg<'number'>('kappa_max', kappa_max),
+    alphaMaxNorm: arg<'number'>('alpha_max_norm', alpha_max_norm),
   };
 }
 
@@ -357,32 +349,32 @@ function designSpec(
  * Example: =HUSH.LAYERS(0.0001, 15, 30, 45, "3,4") → 8
  * Example: =HUSH.LAYERS(0.001, 20, , "0.5 rad") → 4
  * @customfunction LAYERS
- * @param target_amplitude Required amplitude reflection |r| per face, 0 < |r| < 1 (from HUSH.NEEDED_REFLECTION).
- * @param ppw_min Cells per wavelength in the background medium at the short-wavelength end of the band.
- * @param [ppw_max] Cells per wavelength at the long-wavelength end, at least ppw_min. Default ppw_min (one frequency).
- * @param [angle_max_deg] Largest angle of incidence, 0 to 85 degrees; a number (degrees) or text with a unit ("0.5 rad"). Default 0.
- * @param [orders] Allowed grading orders, 1 to 10: a range of cells or text such as "2,3,4". Default 2, 3, 4.
- * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
- * @param [index] Background refractive index n at the absorber, 1 to 100. Default 1.
- * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
- * @param [kappa_max] Fixed κ at the back of the absorber, 1 to 100. Default 1.
- * @param [alpha_max_norm] Fixed CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
+ * @param target Required amplitude reflection |r| per face: an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); > 0, < 1.
+ * @param ppw_min Cells per wavelength in the background at the short-wavelength end of the band: a number; > 0, ≤ 1000000.
+ * @param [ppw_max] Cells per wavelength at the long-wavelength end of the band: a number; > 0, ≤ 1000000. Default ppw_min (one frequency).
+ * @param [angle_max] Largest angle of incidence on the absorber: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, ≤ 85°. Default 0.
+ * @param [orders] Allowed polynomial grading orders: numbers separated by commas or spaces; ≥ 1, ≤ 10. Default 2, 3, 4.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
  * @returns Layer count N (cells).
  */
 export function layers(
-  target_amplitude: number,
-  ppw_min: number,
-  ppw_max?: number,
-  angle_max_deg?: any,
+  target: any,
+  ppw_min: any,
+  ppw_max?: any,
+  angle_max?: any,
   orders?: any[][],
-  courant?: number,
-  index?: number,
-  dimensions?: number,
-  kappa_max?: number,
-  alpha_max_norm?: number,
+  courant?: any,
+  index?: any,
+  dimensions?: any,
+  kappa_max?: any,
+  alpha_max_norm?: any,
 ): Promise<number> {
   return asWorksheet(
-    () => designOf(designSpec(target_amplitude, ppw_min, ppw_max, angle_max_deg, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
     (d: DesignResult) => d.layers,
   );
 }
@@ -391,32 +383,32 @@ export function layers(
  * The thinnest absorber design as one spilled row: layers, grading order, strength σ_max/σ_opt, κ_max, α_max_norm, α order, worst |r| achieved (dense check), cells per wavelength and angle where it occurs, continuous-theory |r|. Headers: HUSH.DESIGN_HEADER().
  * Example: =HUSH.DESIGN(0.001, 20) → {4, 2, 0.937639260920117, 1, 0, 1, 0.000608146415488971, 20, 0, 0.00247654392371049}
  * @customfunction DESIGN
- * @param target_amplitude Required amplitude reflection |r| per face, 0 < |r| < 1 (from HUSH.NEEDED_REFLECTION).
- * @param ppw_min Cells per wavelength in the background medium at the short-wavelength end of the band.
- * @param [ppw_max] Cells per wavelength at the long-wavelength end, at least ppw_min. Default ppw_min (one frequency).
- * @param [angle_max_deg] Largest angle of incidence, 0 to 85 degrees; a number (degrees) or text with a unit ("0.5 rad"). Default 0.
- * @param [orders] Allowed grading orders, 1 to 10: a range of cells or text such as "2,3,4". Default 2, 3, 4.
- * @param [courant] Vacuum Courant number S = cΔt/Δ. Default 0.99/√3 = 0.571577.
- * @param [index] Background refractive index n at the absorber, 1 to 100. Default 1.
- * @param [dimensions] Grid dimensions (1, 2 or 3) for the Courant limit; 1-D allows normal incidence only. Default 3.
- * @param [kappa_max] Fixed κ at the back of the absorber, 1 to 100. Default 1.
- * @param [alpha_max_norm] Fixed CFS shift α_max·η₀·Δ·n (dimensionless), 0 to 10. Default 0.
+ * @param target Required amplitude reflection |r| per face: an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); > 0, < 1.
+ * @param ppw_min Cells per wavelength in the background at the short-wavelength end of the band: a number; > 0, ≤ 1000000.
+ * @param [ppw_max] Cells per wavelength at the long-wavelength end of the band: a number; > 0, ≤ 1000000. Default ppw_min (one frequency).
+ * @param [angle_max] Largest angle of incidence on the absorber: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, ≤ 85°. Default 0.
+ * @param [orders] Allowed polynomial grading orders: numbers separated by commas or spaces; ≥ 1, ≤ 10. Default 2, 3, 4.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
+ * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
  * @returns One row in the order of HUSH.DESIGN_HEADER().
  */
 export function design(
-  target_amplitude: number,
-  ppw_min: number,
-  ppw_max?: number,
-  angle_max_deg?: any,
+  target: any,
+  ppw_min: any,
+  ppw_max?: any,
+  angle_max?: any,
   orders?: any[][],
-  courant?: number,
-  index?: number,
-  dimensions?: number,
-  kappa_max?: number,
-  alpha_max_norm?: number,
+  courant?: any,
+  index?: any,
+  dimensions?: any,
+  kappa_max?: any,
+  alpha_max_norm?: any,
 ): Promise<number[][]> {
   return asWorksheet(
-    () => designOf(designSpec(target_amplitude, ppw_min, ppw_max, angle_max_deg, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
     (d: DesignResult) => [DESIGN_COLUMNS.map((c) => finiteCell(c.header, c.value(d)) as number)],
   );
 }
@@ -433,12 +425,13 @@ export function designHeader(): string[][] {
 
 /** A plan's output row for a worksheet: numbers and text only (an empty value is ""), every number finite. */
 function planCells(plan: Plan): (number | string)[] {
-  return planToRow(plan).map((v, k) => finiteCell(OUTPUT_NAMES[k], v === null || v === undefined ? '' : v));
+  const r = planRecord(plan);
+  return OUTPUT_NAMES.map((n) => finiteCell(n, r[n] ?? ''));
 }
 
 /**
  * Plans one study of a project table: required reflection, absorber design, grid, cells, memory, steps, runtime and cost, spilled as one row (headers: HUSH.PLAN_HEADER()). Runtime and cost are planning estimates from the row's throughput and price. Copy down a table: =HUSH.PLAN($A$1:$AM$1, A2:AM2).
- * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, 3, 4, 0.609875173686855, 0.00136380140418004, 0.0535360064500616, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
+ * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, -46.0422336566019, 3, 4, 0.609875173686855, 0.00136380140418004, -57.3049773347667, 0.0535360064500616, -25.4270805678709, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
  * @customfunction PLAN
  * @param header The project table's header row: field names such as band_short, cell, intensity_error (units in brackets and other columns are ignored), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, as many cells as the header, e.g. A2:AM2. Numbers take each field's default unit; text may carry units ("1550 nm", "3 ps", "$2/h").
@@ -453,7 +446,7 @@ export function plan(header: any[][], row: any[][]): Promise<any[][]> {
 
 /**
  * Header row for HUSH.PLAN, with units in brackets.
- * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "continuous_reflection [|r|]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
+ * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "required_reflection_db [dB]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "worst_reflection_db [dB]", "continuous_reflection [|r|]", "continuous_reflection_db [dB]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
  * @customfunction PLAN_HEADER
  * @returns One row of column names.
  */
@@ -463,11 +456,10 @@ export function planHeader(): string[][] {
 
 /** One figure of a row's plan (the same cached plan HUSH.PLAN spills), with what to add when the row does not give it. */
 function planFigure(header: unknown, row: unknown, column: string, missing: (p: Plan) => string): Promise<number> {
-  const k = OUTPUT_NAMES.indexOf(column);
   return asWorksheet(
     () => planOf(header, row),
     (p: Plan) => {
-      const v = planToRow(p)[k];
+      const v = planRecord(p)[column];
       if (typeof v !== 'number') throw new HushInputError(column, missing(p), 'value');
       return finiteCell(column, v) as number;
     },

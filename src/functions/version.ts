@@ -1,4 +1,2 @@
-/** Version of the add-in itself, from package.json (the bundler keeps only the fields used). */
-import pkg from '../../package.json';
-
-export const APP_VERSION: string = pkg.version;
+/** Version of the add-in itself (src/plan/version.ts, checked against package.json by the tests). */
+export { APP_VERSION } from '../plan/version';

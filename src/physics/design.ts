@@ -490,7 +490,7 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
   const ok = (N: number) => feasible(N).worst <= target;
   const cosT = Math.cos((rs.angleMaxDeg * Math.PI) / 180);
   // Continuous-theory estimate at σ_opt: R = e^{−1.6·N·cos θ} (physics.md §2).
-  let guess = Math.max(1, Math.min(rs.maxLayers, Math.ceil(Math.log(1 / target) / (1.6 * cosT))));
+  const guess = Math.max(1, Math.min(rs.maxLayers, Math.ceil(Math.log(1 / target) / (1.6 * cosT))));
   let lo: number; // infeasible (0 = none known)
   let hi: number; // feasible
   if (ok(guess)) {
@@ -502,7 +502,10 @@ function designForOrder(rs: ResolvedSpec, order: number, grid: SampleGrid, dense
       stepDown *= 2;
     }
     lo = Math.max(0, hi - stepDown);
-    if (lo >= 1 && ok(lo)) hi = lo, lo = 0;
+    if (lo >= 1 && ok(lo)) {
+      hi = lo;
+      lo = 0;
+    }
   } else {
     lo = guess;
     let stepUp = Math.max(1, Math.ceil(guess * 0.25));

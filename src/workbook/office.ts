@@ -59,7 +59,8 @@ export class OfficeWorkbook implements Workbook {
     return this.excel.run(async (context) => {
       const selection = context.workbook.getSelectedRange();
       selection.load('address,rowIndex,columnIndex,rowCount');
-      const sheet = selection.worksheet;
+      // The selection is always on the active sheet.
+      const sheet = context.workbook.worksheets.getActiveWorksheet();
       sheet.load('name');
       const tables = selection.getTables(false);
       const tableCount = tables.getCount();
@@ -69,6 +70,8 @@ export class OfficeWorkbook implements Workbook {
           `select one study row (a single cell of it is enough); the selection ${selection.address} spans ${selection.rowCount} rows`,
         );
       }
+      // tableCount is a ClientResult, read after the sync above (the rule takes it for a proxy object).
+      // eslint-disable-next-line office-addins/load-object-before-read
       const inTable = tableCount.value > 0;
       const block = inTable ? tables.getFirst().getRange() : selection.getSurroundingRegion();
       block.load('address,rowIndex,columnIndex,rowCount,values');
