@@ -187,6 +187,7 @@ export function bandPulseWidth(frequencyLowHz: number, frequencyHighHz: number, 
     throw new HushInputError('band', 'a single frequency is a continuous wave, not a pulse: give a band of two frequencies, or the source duration', 'value');
   }
   const tau = (2 * Math.sqrt(Math.log(1 / l))) / half;
+  if (!(tau > 0)) throw new HushInputError('band', `a band of ${Math.abs(hi - lo)} Hz is too wide for a pulse the grid can sample`);
   if (!(tau <= MAX_RUN_SECONDS)) throw new HushInputError('band', `a band of ${Math.abs(hi - lo)} Hz needs a pulse longer than ${MAX_RUN_SECONDS} s`);
   return tau;
 }
