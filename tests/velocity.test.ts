@@ -262,3 +262,23 @@ describe('time domain: phase velocity measured from two probes (independent comp
     expect(steps * grid.nodes).toBeLessThan(5e7);
   });
 });
+
+describe('documented examples (the values quoted in src/physics/velocity.ts, run-error.ts, dispersion-error.ts, budget.ts)', () => {
+  it('give the stated values to 15 significant digits', async () => {
+    const P = await import('../src/physics');
+    const at15 = (x: number) => Number(x.toPrecision(15));
+    expect(at15(P.gridVelocity({ ppw: 10, courant: 0.5, dimensions: 1 }).phaseVelocityRatio)).toBe(0.987263701339977);
+    expect(at15(P.phaseVelocityRatio({ ppw: 10, courant: 0.5, dimensions: 2, angleDeg: 30 }))).toBe(0.99371296717977);
+    expect(at15(P.phaseVelocityRatio({ ppw: 20, courant: 0.5, dimensions: 1 }))).toBe(0.996891686342981);
+    expect(at15(P.groupVelocityRatio({ ppw: 10, courant: 0.5, dimensions: 1 }))).toBe(0.96163564159678);
+    expect(at15(P.pulseRunError({ pulseWidthSeconds: 1, pulseDelaySeconds: 0, transitSeconds: 0 }, 1))).toBe(0.324413069334789);
+    expect(at15(P.transitTime({ cellMetres: 1e-8, cells: 1000, layers: 10, ppw: 10, courant: 0.5, dimensions: 1 }))).toBe(3.50340317659937e-14);
+    const d = P.dispersionError({ ppw: 20, courant: 0.5, dimensions: 1, pathWavelengths: 10 });
+    expect(Number((d.phaseSlip as number).toPrecision(6))).toBe(0.19591);
+    expect(Number(d.error.toPrecision(6))).toBe(0.429452);
+    expect(Number(P.dispersionPpwForError({ courant: 0.5, dimensions: 1, pathWavelengths: 10 }, 0.01).toPrecision(6))).toBe(124.684);
+    expect(Number(P.maxResonantCoupling(1000).toPrecision(4))).toBe(35.74);
+    expect(P.requiredAmplitude({ intensityError: 0.01, monitor: 'flux' })).toBeCloseTo(0.1, 16);
+    expect(Number(P.resonanceRunDuration({ q: 1000, frequencyHz: 1e9 }, 2.001e-3).toPrecision(5))).toBe(2.1988e-6);
+  });
+});

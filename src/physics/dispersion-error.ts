@@ -182,7 +182,7 @@ function evaluate(r: Resolved, ppw: number, resonancePpw: number): DispersionErr
 /**
  * The study's dispersion error (see the module comment for which error applies).
  * Example: dispersionError({ ppw: 20, courant: 0.5, dimensions: 1, pathWavelengths: 10 }):
- * v_p/v = 0.996917, Δφ = 2π·10·(1/0.996917 − 1) = 0.195910 rad, A = 2 sin(Δφ/2) = 0.195597, error = A(2 + A) = 0.429452.
+ * v_p/v = 0.996892, Δφ = 2π·10·(1/0.996892 − 1) = 0.195910 rad, A = 2 sin(Δφ/2) = 0.195597, error = A(2 + A) = 0.429452.
  */
 export function dispersionError(spec: DispersionErrorSpec): DispersionError {
   const r = resolve(spec, true);

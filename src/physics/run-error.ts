@@ -218,7 +218,7 @@ export interface TransitSpec {
  * One transit of the longest side: (cells + layers)·Δ·n/(c·v_g/v), v_g the grid's
  * group velocity along the axis at `ppw` (module comment).
  * Example: transitTime({ cellMetres: 1e-8, cells: 1000, layers: 10, ppw: 10, courant: 0.5, dimensions: 1 })
- * = 1010·1e-8/(299792458·0.961636) s = 3.5034e-14 s.
+ * = 1010·1e-8/(299792458·0.961636) s = 3.50340317659937e-14 s.
  */
 export function transitTime(spec: TransitSpec): number {
   if (spec === null || typeof spec !== 'object') throw new HushInputError('transit', 'the transit spec must be an object', 'value');
@@ -272,7 +272,7 @@ export function pulseEnergyLeft(spec: PulseRunSpec, durationSeconds: number): nu
 
 /**
  * Intensity error of a pulse run stopped at T: A = √η, ε = (1 + A)² − 1 worst (module comment).
- * Example: pulseRunError({ pulseWidthSeconds: 1, pulseDelaySeconds: 0, transitSeconds: 0 }, 1) = (1 + √(½erfc(√2)))² − 1 = 0.4993…
+ * Example: pulseRunError({ pulseWidthSeconds: 1, pulseDelaySeconds: 0, transitSeconds: 0 }, 1) = (1 + √(½erfc(√2)))² − 1 = 0.324413069334789
  */
 export function pulseRunError(spec: PulseRunSpec, durationSeconds: number): number {
   const p = checkPulse(spec);
