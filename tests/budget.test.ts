@@ -52,7 +52,7 @@ describe('accuracy budget (physics.md §1)', () => {
       [() => requiredAmplitude({ intensityError: 0.01, faces: 0 }), /faces must be a whole number from 1 to 6/],
       [() => requiredAmplitude({ intensityError: 0.01, share: 0 }), /share must be at least 0.000001 and at most 1/],
       [() => requiredAmplitude({ intensityError: 0.01, share: 1.5 }), /share must be at least 0.000001 and at most 1/],
-      [() => requiredAmplitude({ intensityError: 0.01, coupling: 2 }), /coupling must be at least 0.000001 and at most 1/],
+      [() => requiredAmplitude({ intensityError: 0.01, coupling: 2e6 }), /coupling must be at least 0.000001 and at most 1128379.167/],
       [() => requiredAmplitude({ intensityError: 0.01, phase: 'sometimes' as 'worst' }), /phase must be "worst" or "random"/],
       [() => intensityErrorFromAmplitude(1), /amplitude reflection must be at least 0 and less than 1/],
     ];

@@ -25,6 +25,28 @@ export type * from './design';
 export { FACE_NAMES, MAX_AXIS_CELLS, domainCounts } from './domain';
 export type * from './domain';
 export * from './ringdown';
+export { defaultCourant, gridVelocity, phaseVelocityRatio, groupVelocityRatio, propagationLimitPpw } from './velocity';
+export type * from './velocity';
+export { MAX_PATH_WAVELENGTHS, dispersionError, dispersionPpwForError, lineShiftError, lineShiftForError } from './dispersion-error';
+export type * from './dispersion-error';
+export {
+  SOURCE_DELAY_WIDTHS,
+  DEFAULT_PULSE_EDGE_LEVEL,
+  MAX_RUN_SECONDS,
+  MIN_RUN_ERROR,
+  resonanceRunError,
+  resonanceRunDuration,
+  bandPulseWidth,
+  pulseSourceDuration,
+  transitTime,
+  passesDuration,
+  pulseEnergyLeft,
+  pulseRunError,
+  pulseRunDuration,
+} from './run-error';
+export type * from './run-error';
+export { CELL_LADDER_STEPS, DISPERSION_SHARES, MAX_DESIGNS_PER_CELL, MAX_ABSORBER_SEARCHES, splitAccuracy } from './accuracy-split';
+export type * from './accuracy-split';
 export { DEFAULT_ABSORBER_FACTOR, DEFAULT_RING_TARGET, MAX_NODES, MAX_STEPS, timeStep, stepCount, runTime, runCost } from './cost';
 export type * from './cost';
 export { CpmlLine, MAX_LINE_NODES } from './fdtd/line';

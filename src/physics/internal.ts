@@ -15,6 +15,19 @@ export { worstReflection, sampleGrid, bestStrengthFor } from './design';
 export { profileAt, sigmaOptNormUnchecked } from './grading';
 export { attenuationIntegral, continuousReflectionUnchecked } from './continuous';
 export { discreteWavenumberUnchecked } from './dispersion';
+export {
+  absCosDeg,
+  absSinDeg,
+  branchEndValue,
+  propagationLimitUnchecked,
+  yeeWavenumberUnchecked,
+  phaseVelocityUnchecked,
+  groupVelocityUnchecked,
+  fixedWavenumberFrequencyRatio,
+  resolveDirection,
+  checkVelocityPpw,
+} from './velocity';
+export { erfc, erfcInverse } from './run-error';
 export { psiPerStretchedAxis } from './domain';
 export { haloValuesPerCell, bytesPerValue, blockSplit, defaultFieldsPerCell, defaultMaterialPerCell } from './cost';
 export { gaussianLevel, planPulse, fillPulse } from './fdtd/pulse';

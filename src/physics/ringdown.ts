@@ -28,3 +28,16 @@ export function ringdownTime(q: number, frequencyHz: number, target: number): nu
   }
   return t;
 }
+
+/**
+ * Relative amplitude e^{−ωt/(2Q)} a resonance of quality factor `q` at
+ * `frequencyHz` still has `durationSeconds` after its excitation (physics.md §5).
+ * Example: ringdownResidual(1000, 1e9, ringdownTime(1000, 1e9, 1e-3)) = 1e-3 (to rounding).
+ */
+export function ringdownResidual(q: number, frequencyHz: number, durationSeconds: number): number {
+  const Q = inRange('quality factor', q, 0, MAX_QUALITY_FACTOR, { loOpen: true });
+  const f = inRange('ring-down frequency', frequencyHz, 0, Infinity, { loOpen: true, hiOpen: true, unit: 'Hz' });
+  const t = inRange('duration', durationSeconds, 0, Infinity, { hiOpen: true, unit: 's' });
+  // e^{−x} underflows to 0 for x > 745: the residual is then below any double, 0 is exact to the last bit.
+  return Math.exp(-(2 * Math.PI * f * t) / (2 * Q));
+}
