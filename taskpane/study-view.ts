@@ -14,8 +14,10 @@ export function renderStudy(plan: Plan, values: RowValues): void {
   const pair = (k: string, v: string) => dl.append(el('dt', {}, k), el('dd', {}, v));
   const faces = i.facesSeen === 1 ? 'one absorbing face' : `${i.facesSeen} absorbing faces (${i.phase === 'worst' ? 'amplitudes add' : 'random phases'})`;
   pair('Tolerated error', `${sig(i.intensityError * 100)} % in intensity at the monitor`);
-  pair('Echo path', `coupling ${sig(i.coupling)}, ${faces}${i.share < 1 ? `, ${sig(i.share * 100)} % of the budget` : ''}`);
+  pair('Echo path', `coupling ${sig(i.coupling)}, ${faces}${i.share !== null ? `, ${sig(i.share * 100)} % of the budget (share)` : ''}`);
   pair('Required |r|', `${sig(plan.requiredReflection)} per face (amplitude)`);
+  const e = plan.accuracy.errors;
+  pair('Error split', `absorber ${sig(e.absorber * 100)} %, dispersion ${sig(e.dispersion * 100)} %, run ${sig(e.run * 100)} % (${i.phase === 'worst' ? 'added' : 'in quadrature'}: ${sig(e.combined * 100)} %)`);
   pair('Band', `${g.ppwLong === g.ppwShort ? sig(g.ppwShort) : `${sig(g.ppwShort)} to ${sig(g.ppwLong)}`} cells per wavelength in the background (n = ${sig(i.index)})`);
   pair('Angles', i.dimensions === 1 ? 'normal incidence (1-D)' : `0° to ${sig(i.angleMaxDeg)}°`);
   pair('Grid', `${i.dimensions}-D, Courant number ${sig(i.courant)} (limit ${sig(g.courantLimit)})`);

@@ -72,7 +72,7 @@ describe('hush plan', () => {
     const out = join(dir, 'demo-plan.xlsx');
     const r = await run(['plan', demo, '--out', out]);
     expect(r.code).toBe(0);
-    expect(r.out).toMatch(/8 planned, 0 failed/);
+    expect(r.out).toMatch(/9 planned, 0 failed/);
     expect(r.out).toMatch(/planning estimates/);
     const source = parseCsv(readFileSync(demo, 'utf8'));
     const wb = new ExcelJS.Workbook();
@@ -106,7 +106,7 @@ describe('hush plan', () => {
     if (!existsSync(join(root, 'dist/node/cli/index.js'))) execFileSync('npx', ['tsc', '-p', 'tsconfig.cli.json'], { cwd: root });
     const p = spawnSync(process.execPath, ['bin/hush.js', 'plan', 'assets/demo-project.csv', '--out', out, '--replace'], { cwd: root, encoding: 'utf8' });
     expect(p.status, p.stderr).toBe(0);
-    expect(p.stdout).toMatch(/8 planned, 0 failed/);
+    expect(p.stdout).toMatch(/9 planned, 0 failed/);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile(out);
     const ws = wb.getWorksheet('plan')!;

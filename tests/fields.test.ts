@@ -47,6 +47,7 @@ const SAMPLES: Record<string, unknown[]> = {
   axes: ['x y', 'Z'],
   price: ['$2.50/h', 3, '2.40 EUR/h', 'cheap'],
   gap: [5, '5 cells', '0.5 wavelengths', '300 nm', '2 s'],
+  path: [3, '3 wavelengths', '12 um', '5 cells', '2 s', -1],
 };
 
 type Outcome = { value: unknown } | { error: string };

@@ -127,8 +127,8 @@ describe('planRow: budget → design → cost', () => {
   });
 
   it('inputs that other inputs leave unused are named in the notes, not dropped silently', () => {
-    const one = planRow({ ...ring, q: '', duration: '1 ps', ring_target: 1e-4, efficiency: 0.9, latency: '2 us' }).warnings;
-    expect(one).toContain('ring_target is not used: they set the ring-down length, which needs q');
+    const one = planRow({ ...ring, q: '', duration: '20 ps', ring_target: 1e-4, efficiency: 0.9, latency: '2 us' }).warnings;
+    expect(one).toContain('ring_target is not used: they describe a resonance, which needs q');
     expect(one).toContain('efficiency and latency are not used: they apply to runs on several nodes (nodes is 1)');
     const many = planRow({ ...ring, nodes: 4, efficiency: 0.8, bandwidth: '10 GB/s' });
     expect(many.warnings).toContain(

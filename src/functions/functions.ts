@@ -21,6 +21,7 @@ import {
   HushInputError,
   MODEL_VERSION,
   defaultCourant,
+  gridVelocity,
   intensityErrorFromAmplitude,
   reflection,
   reflectionFromRipple,
@@ -56,10 +57,10 @@ function budgetOptions(coupling: unknown, faces_seen: unknown, phase: unknown, s
  * Example: =HUSH.NEEDED_REFLECTION("1%", "100%") → 0.00498756211208903
  * @customfunction NEEDED_REFLECTION
  * @param intensity_error Tolerated relative intensity error at the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-12, ≤ 1.
- * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
  * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
- * @param [share] Share of the error budget given to the absorber: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [share] Share of the error budget given to the absorber, to override the planned split: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default searched (the cheapest split).
  * @returns Amplitude reflection |r| each face may have.
  */
 export function neededReflection(
@@ -83,10 +84,10 @@ export function neededReflection(
  * Example: =HUSH.ERROR_FROM_REFLECTION(0.001, , , "random") → 0.00141421391592644
  * @customfunction ERROR_FROM_REFLECTION
  * @param amplitude Amplitude reflection |r| of one face (not the power |r|²): an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); ≥ 0, < 1.
- * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
  * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
- * @param [share] Share of the error budget given to the absorber: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [share] Share of the error budget given to the absorber, to override the planned split: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default searched (the cheapest split).
  * @returns Relative intensity error ε (0.01 means 1 %).
  */
 export function errorFromReflection(
@@ -142,7 +143,7 @@ function absorberAndWave(
  * @param layers Absorber thickness N in cells: a whole number; ≥ 1, ≤ 200.
  * @param order Polynomial grading order m of σ and κ (3 or 4 is usual): a number; ≥ 0, ≤ 10.
  * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
- * @param [angle] Angle of incidence: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [angle] Angle of incidence (from the face normal, the x axis): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
  * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn): a number; > 0, ≤ 20. Default 1.
  * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
@@ -178,7 +179,7 @@ export function reflectionExact(
  * @param layers Absorber thickness N in cells: a whole number; ≥ 1, ≤ 200.
  * @param order Polynomial grading order m of σ and κ (3 or 4 is usual): a number; ≥ 0, ≤ 10.
  * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
- * @param [angle] Angle of incidence: an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [angle] Angle of incidence (from the face normal, the x axis): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
  * @param [strength] σ_max/σ_opt, with σ_opt = 0.8(m+1)/(η₀Δn): a number; > 0, ≤ 20. Default 1.
  * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
@@ -261,7 +262,7 @@ export function reflectionTable(
  * @param amplitude Amplitude reflection |r| of one face (not the power |r|²): an amplitude |r|, a percentage or dB (0.001, 0.1%, -60 dB); ≥ 0, < 1.
  * @param distance Distance between the boundary and the other reflector: a length such as 20 nm or 0.02 um; a bare number is in m; ≥ 1e-12 m, ≤ 1000000 m.
  * @param [group_index] Group index of the medium between the reflecting pair: a number; ≥ 1, ≤ 100. Default 1.
- * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @returns One row: peak-to-peak swing (relative), period (Hz).
  */
 export function ripple(amplitude: any, distance: any, group_index?: any, coupling?: any): number[][] {
@@ -284,7 +285,7 @@ export function ripple(amplitude: any, distance: any, group_index?: any, couplin
  * @param peak_to_peak Observed peak-to-peak relative intensity swing: a number or a percentage (0.01 or 1%); > 0, < 4.
  * @param period Observed ripple period in frequency: a frequency such as 193 THz or 1.5 GHz; a bare number is in Hz; ≥ 0.001 Hz, ≤ 1e+18 Hz.
  * @param [group_index] Group index of the medium between the reflecting pair: a number; ≥ 1, ≤ 100. Default 1.
- * @param [coupling] Share of the echo amplitude that reaches the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1.
+ * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @returns One row: amplitude reflection |r|, distance (m).
  */
 export function rippleSource(peak_to_peak: any, period: any, group_index?: any, coupling?: any): number[][] {
@@ -299,9 +300,52 @@ export function rippleSource(peak_to_peak: any, period: any, group_index?: any, 
   });
 }
 
+function velocityOf(ppw: unknown, courant: unknown, dimensions: unknown, angle: unknown, azimuth: unknown) {
+  const dims = arg<'count'>('dimensions', dimensions) ?? 3;
+  return gridVelocity({
+    ppw: requiredArg<'number'>('ppw', ppw),
+    courant: arg<'number'>('courant', courant) ?? defaultCourant(dims),
+    dimensions: dims,
+    angleDeg: arg<'angle'>('angle', angle) ?? 0,
+    azimuthDeg: arg<'angle'>('azimuth', azimuth) ?? 0,
+  });
+}
+
+/**
+ * Numerical phase velocity of the Yee grid relative to the true wave speed (v_p/v), from the exact dispersion relation, for a wave of ppw cells per wavelength along a direction.
+ * Example: =HUSH.PHASE_VELOCITY(10, 0.5, 1) → 0.987263701339977
+ * Example: =HUSH.PHASE_VELOCITY(10, 0.5, 2, 30) → 0.99371296717977
+ * @customfunction PHASE_VELOCITY
+ * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [angle] Angle of incidence (from the face normal, the x axis): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [azimuth] Azimuth of the direction about the x axis (3-D grids): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ -360°, ≤ 360°. Default 0.
+ * @returns v_p/v (1 is dispersion-free).
+ */
+export function phaseVelocity(ppw: any, courant?: any, dimensions?: any, angle?: any, azimuth?: any): number {
+  return worksheet(() => velocityOf(ppw, courant, dimensions, angle, azimuth).phaseVelocityRatio);
+}
+
+/**
+ * Numerical group velocity of the Yee grid relative to the true wave speed (v_g/v, the rate dω/d|k| along the direction), from the exact dispersion relation.
+ * Example: =HUSH.GROUP_VELOCITY(10, 0.5, 1) → 0.96163564159678
+ * Example: =HUSH.GROUP_VELOCITY(10, 0.5, 2, 30) → 0.981058642023259
+ * @customfunction GROUP_VELOCITY
+ * @param ppw Cells per wavelength in the background medium at this frequency: a number; > 0, ≤ 1000000.
+ * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
+ * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [angle] Angle of incidence (from the face normal, the x axis): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, < 90°. Default 0.
+ * @param [azimuth] Azimuth of the direction about the x axis (3-D grids): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ -360°, ≤ 360°. Default 0.
+ * @returns v_g/v.
+ */
+export function groupVelocity(ppw: any, courant?: any, dimensions?: any, angle?: any, azimuth?: any): number {
+  return worksheet(() => velocityOf(ppw, courant, dimensions, angle, azimuth).groupVelocityRatio);
+}
+
 /**
  * Versions of the add-in and of its physical model. Keep this in the workbook: results are stable within one model version, so colleagues can check they compute with the same one.
- * Example: =HUSH.MODEL_VERSION() → "Hush 0.1.0, model 1.0.0"
+ * Example: =HUSH.MODEL_VERSION() → "Hush 0.1.0, model 2.0.0"
  * @customfunction MODEL_VERSION
  * @returns "Hush <add-in version>, model <model version>".
  */
@@ -431,7 +475,7 @@ function planCells(plan: Plan): (number | string)[] {
 
 /**
  * Plans one study of a project table: required reflection, absorber design, grid, cells, memory, steps, runtime and cost, spilled as one row (headers: HUSH.PLAN_HEADER()). Runtime and cost are planning estimates from the row's throughput and price. Copy down a table: =HUSH.PLAN($A$1:$AM$1, A2:AM2).
- * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, -46.0422336566019, 3, 4, 0.609875173686855, 0.00136380140418004, -57.3049773347667, 0.0535360064500616, -25.4270805678709, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.47114344684415e-13, 13577, 0.110027721374444, 0.100161179704444, 0.00986654167, 0, 8.96732345880577, 0.275069303436111, "", 1, "", "1.0.0"}
+ * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, -46.0422336566019, 0.00272946276263012, 0, 0, 0.00272946276263012, 2.5e-8, "", "", 3, 4, 0.609875173686855, 0.00136380140418004, -57.3049773347667, 0.0535360064500616, -25.4270805678709, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.4266693059685e-13, 13484, 0.109274051337778, 0.0994750936977778, 0.00979895764, 0, 8.96732345880576, 0.273185128344444, 0.0244973941, 0, 0, "", 1, "accuracy split: absorber 0.273 %, dispersion 0 %, run 0 % (added: 0.273 % of 1 %)", "2.0.0"}
  * @customfunction PLAN
  * @param header The project table's header row: field names such as band_short, cell, intensity_error (units in brackets and other columns are ignored), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, as many cells as the header, e.g. A2:AM2. Numbers take each field's default unit; text may carry units ("1550 nm", "3 ps", "$2/h").
@@ -446,7 +490,7 @@ export function plan(header: any[][], row: any[][]): Promise<any[][]> {
 
 /**
  * Header row for HUSH.PLAN, with units in brackets.
- * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "required_reflection_db [dB]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "worst_reflection_db [dB]", "continuous_reflection [|r|]", "continuous_reflection_db [dB]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
+ * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "required_reflection_db [dB]", "error_absorber", "error_dispersion", "error_run", "error_total", "cell_planned [m]", "ppw_min [cells/λ]", "resonance_shift [linewidths]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "worst_reflection_db [dB]", "continuous_reflection [|r|]", "continuous_reflection_db [dB]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "cost_absorber [currency]", "cost_refinement [currency]", "saving [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
  * @customfunction PLAN_HEADER
  * @returns One row of column names.
  */
@@ -494,7 +538,7 @@ export function memory(header: any[][], row: any[][]): Promise<number> {
 
 /**
  * Time steps of a study's run (its duration, passes or ring-down of q over Δt = S·Δ/c).
- * Example: =HUSH.STEPS({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 13577
+ * Example: =HUSH.STEPS({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 13484
  * @customfunction STEPS
  * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, e.g. A2:AM2.
@@ -506,7 +550,7 @@ export function steps(header: any[][], row: any[][]): Promise<number> {
 
 /**
  * Estimated wall time of a study's run in hours, from the row's throughput (a planning estimate, not a measurement).
- * Example: =HUSH.RUNTIME({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.110027721374444
+ * Example: =HUSH.RUNTIME({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.109274051337778
  * @customfunction RUNTIME
  * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, e.g. A2:AM2.
@@ -520,7 +564,7 @@ export function runtime(header: any[][], row: any[][]): Promise<number> {
 
 /**
  * Estimated cost of a study's run: runtime × nodes × price per node-hour, in the row's currency (a planning estimate).
- * Example: =HUSH.COST({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.275069303436111
+ * Example: =HUSH.COST({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → 0.273185128344444
  * @customfunction COST
  * @param header The project table's header row (field names), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, e.g. A2:AM2.

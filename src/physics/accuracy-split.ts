@@ -248,6 +248,11 @@ function offer<D>(c: Ctx<D>, plan: SplitPlan<D> | null): void {
 }
 
 /** The absorber takes all the rest at the user's cell and duration. */
+/** An error as a percentage for a note (3 significant digits). */
+function percent(x: number): string {
+  return `${Number((100 * x).toPrecision(3))} %`;
+}
+
 function baselinePlan<D>(c: Ctx<D>): { plan: SplitPlan<D> | null; note: string | null } {
   const cell = c.p.cellMax;
   const run = c.p.run;
@@ -262,10 +267,10 @@ function baselinePlan<D>(c: Ctx<D>): { plan: SplitPlan<D> | null; note: string |
   }
   const left = remainder(c.worst, remainder(c.worst, c.tol, ed), er);
   if (!(left > 0)) {
-    return { plan: null, note: `dispersion (${ed.toPrecision(3)}) and run length (${er.toPrecision(3)}) leave nothing of the tolerance ${c.tol} to the absorber at the given cell and duration` };
+    return { plan: null, note: `the dispersion (${percent(ed)}) and the run length (${percent(er)}) leave nothing of the tolerance (${percent(c.tol)}) to the absorber at the given cell and duration` };
   }
   const choice = absorberFor(c, cell, left * SAFETY);
-  if (!choice) return { plan: null, note: `no absorber meets the ${left.toPrecision(3)} the other errors leave at the given cell` };
+  if (!choice) return { plan: null, note: `no absorber meets the ${percent(left)} of intensity error the other errors leave at the given cell` };
   const plan = makePlan(c, cell, duration, choice, ed, er);
   return { plan, note: plan ? null : 'the absorber chosen exceeds its budget' };
 }

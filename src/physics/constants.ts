@@ -20,4 +20,4 @@ export const MAX_STRENGTH = 20;
 /** Largest normalised α_max = α·η₀·Δ·n accepted. */
 export const MAX_ALPHA_NORM = 10;
 /** Version of the physical model; results are stable within one model version. */
-export const MODEL_VERSION = '1.0.0';
+export const MODEL_VERSION = '2.0.0';

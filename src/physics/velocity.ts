@@ -28,6 +28,7 @@
  *   p > p_min = π S_m / asin(S_m √G_max)   (or 2 S_m when S_m √G_max ≥ 1)      (derived)
  * 1-D, S = 0.5: p_min = 3 (Taflove & Hagness, 3rd ed., ch. 4).
  */
+import { DEFAULT_COURANT_FRACTION } from './limits';
 import { checkCourant, courantLimit } from './courant';
 import { MAX_PPW } from './dispersion';
 import { HushInputError, quote } from './errors';
@@ -168,7 +169,9 @@ export interface ResolvedDirection {
 
 /** Default vacuum Courant number of a D-dimensional grid: 0.99 of its limit 1/√D (common practice: a small margin). */
 export function defaultCourant(dimensions: number): number {
-  return 0.99 * courantLimit(dimensions);
+  courantLimit(dimensions); // checks dimensions
+  // Written as 0.99/√D so that the 3-D value is DEFAULT_COURANT bit for bit.
+  return DEFAULT_COURANT_FRACTION / Math.sqrt(dimensions);
 }
 
 function formatLimit(x: number): string {

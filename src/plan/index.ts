@@ -13,9 +13,11 @@
 import { MODEL_VERSION } from '../physics/constants';
 import { conductivityNorm } from '../physics/normalise';
 import { courantLimit } from '../physics/courant';
-import { requiredAmplitude } from '../physics/budget';
-import { designAbsorber, type DesignResult } from '../physics/design';
-import { runCost, type CostResult } from '../physics/cost';
+import { MIN_INTENSITY_ERROR, requiredAmplitude } from '../physics/budget';
+import { type DesignResult } from '../physics/design';
+import { type CostResult } from '../physics/cost';
+import { budgetOptions, costAt, gridAt, planAccuracy, type AccuracyPlan } from './accuracy';
+import { accuracyNotes } from './accuracy-notes';
 import { HushInputError } from '../physics/errors';
 import { OUTPUT_COLUMNS, OUTPUT_NAMES, errorRecord, outputHeaderText, planRecord, type OutputColumn, type PlanCell, type PlanRecord } from './fields';
 import { planInputs, type PlanInputs, type ProjectRow } from './row';
@@ -39,6 +41,8 @@ export interface Plan {
   inputs: PlanInputs;
   requiredReflection: number;
   grid: PlanGrid;
+  /** The split of the tolerance between the absorber, the dispersion and the run, and the cell and duration it chose. */
+  accuracy: AccuracyPlan;
   design: DesignResult;
   cost: CostResult;
   warnings: string[];
@@ -85,60 +89,32 @@ export function planFromInputs(inputs: PlanInputs): Plan {
   const i = inputs;
   const warnings: string[] = [];
   // Cells per wavelength in a medium of index n: λ_vacuum/(n·Δ) (physics.md §3).
-  const ppwShort = i.wavelengthShort / (i.index * i.cell);
-  const ppwLong = i.wavelengthLong / (i.index * i.cell);
-  const ppwDensest = i.wavelengthShort / (i.indexMax * i.cell);
+  const userPpwShort = i.wavelengthShort / (i.index * i.cell);
   // A cell 1000× off (a unit slip: 20 um for 20 nm, or 0.02 nm) shows as an absurd resolution; say so in the cell's terms.
-  if (ppwShort < MIN_PLAUSIBLE_PPW) {
+  if (userPpwShort < MIN_PLAUSIBLE_PPW) {
     throw new HushInputError(
       'cell',
-      `cell ${plainLength(i.cell)} gives ${ppwShort.toPrecision(3)} cells per wavelength at the band's short end (${plainLength(i.wavelengthShort)} in index ${i.index}): no grid resolves that; check the cell's unit (a bare number is in nm)`,
+      `cell ${plainLength(i.cell)} gives ${userPpwShort.toPrecision(3)} cells per wavelength at the band's short end (${plainLength(i.wavelengthShort)} in index ${i.index}): no grid resolves that; check the cell's unit (a bare number is in nm)`,
     );
   }
-  const alphaMaxNorm = conductivityNorm(i.alphaMax, i.cell, i.index);
-  if (!Number.isFinite(alphaMaxNorm)) {
+  const alphaMaxNorm0 = conductivityNorm(i.alphaMax, i.cell, i.index);
+  if (!Number.isFinite(alphaMaxNorm0)) {
     throw new HushInputError('alpha_max', `alpha_max ${i.alphaMax} S/m is out of range for a ${i.cell} m cell at index ${i.index} (α·η₀·Δ·n overflows)`);
   }
-  const required = requiredAmplitude({ intensityError: i.intensityError, coupling: i.coupling, faces: i.facesSeen, phase: i.phase, share: i.share });
-  const design = designAbsorber({
-    target: required,
-    ppwMin: ppwShort,
-    ppwMax: ppwLong,
-    angleMaxDeg: i.angleMaxDeg,
-    courant: i.courant,
-    dimensions: i.dimensions,
-    index: i.index,
-    orders: i.orders,
-    kappaMax: i.kappaMax,
-    alphaMaxNorm,
-  });
   const hasRun = i.duration !== null || i.passes !== null || i.q !== null;
-  const cost = runCost({
-    domain: { dimensions: i.dimensions, interior: i.interiorCells, layers: design.layers, faces: i.faces, gap: i.gapCells },
-    precision: i.precision,
-    fieldsPerCell: i.fieldsPerCell ?? undefined,
-    materialPerCell: i.materialPerCell ?? undefined,
-    time: hasRun
-      ? {
-          cellMetres: i.cell,
-          courant: i.courant,
-          duration: i.duration ?? undefined,
-          passes: i.passes ?? undefined,
-          q: i.q ?? undefined,
-          ringFrequencyHz: i.ringFrequency ?? undefined,
-          ringTarget: i.ringTarget ?? undefined,
-          index: i.index,
-        }
-      : undefined,
-    absorberFactor: i.absorberFactor,
-    throughput: i.throughput ?? undefined,
-    pricePerHour: i.pricePerHour ?? undefined,
-    nodes: i.nodes,
-    efficiency: i.efficiency ?? undefined,
-    decomposition: i.decomposition,
-    bandwidth: i.bandwidth ?? undefined,
-    latency: i.latency,
-  });
+  const accuracy = planAccuracy(i);
+  const design = accuracy.design;
+  const g = gridAt(i, accuracy.cell);
+  const { ppwShort, ppwLong, ppwDensest, alphaMaxNorm } = g;
+  const cost = costAt(i, g, design.layers, accuracy.duration);
+  // The amplitude the absorber may reflect: its part of the tolerance, what the dispersion and the run leave.
+  const worst = i.phase === 'worst';
+  const rest = worst
+    ? i.intensityError - accuracy.errors.dispersion - accuracy.errors.run
+    : Math.sqrt(Math.max(0, i.intensityError ** 2 - accuracy.errors.dispersion ** 2 - accuracy.errors.run ** 2));
+  const required = accuracy.shareOverride
+    ? requiredAmplitude({ intensityError: i.intensityError, share: i.share as number, ...budgetOptions(i) })
+    : requiredAmplitude({ intensityError: Math.max(rest, MIN_INTENSITY_ERROR), ...budgetOptions(i) });
 
   // Values below a threshold are shown rounded down, so a shortfall never reads as the threshold itself.
   const down = (x: number, digits: number) => (Math.floor(x * 10 ** digits) / 10 ** digits).toFixed(digits);
@@ -147,10 +123,10 @@ export function planFromInputs(inputs: PlanInputs): Plan {
       `resolution: ${down(ppwDensest, 1)} cells per wavelength in the densest material (index ${i.indexMax}) at the short end; common practice is at least ${MIN_ADVISED_PPW}`,
     );
   }
-  const gapWavelengths = (i.gapCells * i.cell * i.index) / i.wavelengthLong;
+  const gapWavelengths = (g.gapCells * g.cell * i.index) / i.wavelengthLong;
   if (i.gapGiven && gapWavelengths < MIN_ADVISED_GAP_WAVELENGTHS) {
     warnings.push(
-      `absorber close to the structure: gap ${i.gapCells} cells = ${down(gapWavelengths, 2)} wavelengths (longest, in the background); common practice keeps at least ${MIN_ADVISED_GAP_WAVELENGTHS} so near fields decay before the absorber`,
+      `absorber close to the structure: gap ${g.gapCells} cells = ${down(gapWavelengths, 2)} wavelengths (longest, in the background); common practice keeps at least ${MIN_ADVISED_GAP_WAVELENGTHS} so near fields decay before the absorber`,
     );
   }
   if (i.angleMaxDeg > GRAZING_WARNING_DEG) {
@@ -168,6 +144,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     );
   }
   warnings.push(...i.unusedNotes);
+  warnings.push(...accuracyNotes(i, accuracy));
   if (cost.parallel.model === 'halo exchange' && cost.parallel.efficiency < 0.5) {
     warnings.push(`halo exchange dominates: parallel efficiency ${cost.parallel.efficiency.toFixed(2)} on ${i.nodes} nodes; fewer nodes or a block decomposition may be cheaper`);
   }
@@ -176,6 +153,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     inputs,
     requiredReflection: required,
     grid: { ppwShort, ppwLong, ppwDensest, courantLimit: courantLimit(i.dimensions), alphaMaxNorm },
+    accuracy,
     design,
     cost,
     warnings,

@@ -7,13 +7,15 @@
  */
 import { SPEED_OF_LIGHT } from '../physics/constants';
 import { checkCourant, courantLimit } from '../physics/courant';
-import type { PhaseModel } from '../physics/budget';
+import { maxResonantCoupling, type PhaseModel } from '../physics/budget';
 import type { Decomposition, Precision } from '../physics/cost';
 import { DEFAULT_ABSORBER_FACTOR, DEFAULT_RING_TARGET } from '../physics/cost';
 import { FACE_NAMES, type FaceKind } from '../physics/domain';
 import { HushInputError } from '../physics/errors';
 import { DEFAULT_COURANT_FRACTION, DEFAULT_ORDERS } from '../physics/limits';
 import { canonical, type Gap } from './units';
+import type { MonitorKind } from '../physics/budget';
+import type { PathLength } from './fields/kinds';
 import { inputColumn, isBlank, readInput, type KindValue, type ReadOptions } from './fields';
 
 /** What a table cell holds. */
@@ -56,7 +58,17 @@ export interface PlanInputs {
   coupling: number;
   facesSeen: number;
   phase: PhaseModel;
-  share: number;
+  monitor: MonitorKind;
+  /** Share of the tolerance given to the absorber when the user overrides the planned split; null: the split is searched. */
+  share: number | null;
+  /** Propagation path to an interferometric monitor (its phase slip counts as error), or null. */
+  path: PathLength | null;
+  /** With q: 'ringdown' (q sets the run only) or 'line' (the line's shift on the grid counts as error). */
+  resonance: 'ringdown' | 'line';
+  /** Finest cell the planner may choose, m; null: the default (cell/4). */
+  cellMin: number | null;
+  /** True when ring_target was typed (the run is then fixed by it). */
+  ringTargetGiven: boolean;
   duration: number | null;
   passes: number | null;
   q: number | null;
@@ -226,7 +238,12 @@ export function planInputs(row: ProjectRow): PlanInputs {
     throw new HushInputError('faces_seen', `faces_seen must be at most the number of absorbing faces, ${absorbingCount} (got ${facesSeen})`);
   }
   const phase = (read<'choice'>('phase') ?? 'worst') as PhaseModel;
-  const share = read<'fraction'>('share') ?? 1;
+  const share = read<'fraction'>('share') ?? null;
+  const monitor = (read<'choice'>('monitor') ?? 'intensity') as MonitorKind;
+  const path = read<'path'>('path') ?? null;
+  const resonance = (read<'choice'>('resonance') ?? 'ringdown') as 'ringdown' | 'line';
+  const cellMin = read<'length'>('cell_min') ?? null;
+  if (cellMin !== null && cellMin > cell) throw new HushInputError('cell_min', `cell_min must be at most cell (${cell} m) (got ${cellMin} m)`);
 
   const duration = read<'time'>('duration') ?? null;
   const passes = read<'number'>('passes') ?? null;
@@ -259,12 +276,17 @@ export function planInputs(row: ProjectRow): PlanInputs {
     const n = names.filter(given);
     if (n.length) notes.push(`${n.length > 1 ? `${n.slice(0, -1).join(', ')} and ${n[n.length - 1]} are` : `${n[0]} is`} not used: ${why}`);
   };
-  if (q === null) unused(['ring_target', 'ring_frequency'], 'they set the ring-down length, which needs q');
+  if (q === null) unused(['ring_target', 'ring_frequency', 'resonance'], 'they describe a resonance, which needs q');
+  if (coupling > 1 && q === null) throw new HushInputError('coupling', `coupling above 1 needs a resonance to build the echo up: give q (got ${coupling})`);
+  if (q !== null && coupling > maxResonantCoupling(q)) {
+    throw new HushInputError('coupling', `coupling must be at most 2√(1 + Q/π) = ${maxResonantCoupling(q).toPrecision(4)} for q ${q}: no lossless resonance builds an echo up more (got ${coupling})`);
+  }
+  if (coupling > 1) notes.push(`coupling ${coupling}: the echo is taken as built up ${coupling}× by a resonance between the absorber and the monitor`);
   if (nodes === 1) unused(['efficiency', 'decomposition', 'bandwidth', 'latency'], 'they apply to runs on several nodes (nodes is 1)');
   else if (efficiency !== null) unused(['bandwidth', 'latency'], 'the stated efficiency sets the parallel runtime (halo_per_step is still reported); clear efficiency to model the halo exchange');
   return {
     study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells, gapGiven, unusedNotes: notes,
-    angleMaxDeg, intensityError, coupling, facesSeen, phase, share, duration, passes, q, ringTarget, ringFrequency,
+    angleMaxDeg, intensityError, coupling, facesSeen, phase, monitor, share, path, resonance, cellMin, ringTargetGiven: ringTargetTyped !== undefined, duration, passes, q, ringTarget, ringFrequency,
     throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, absorberFactor,
     fieldsPerCell, materialPerCell,
   };

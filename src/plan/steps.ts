@@ -45,20 +45,12 @@ export {
   type ReflectionMeasurement,
 } from '../physics/fdtd';
 
-import { courantLimit } from '../physics/courant';
 import { conductivityNorm } from '../physics/normalise';
-import { DEFAULT_COURANT_FRACTION } from '../physics/limits';
 import { HushInputError as InputError } from '../physics/errors';
 
 export { conductivityNorm, conductivityFromNorm, phaseStep } from '../physics/normalise';
 export { DEFAULT_COURANT_FRACTION, DEFAULT_ORDERS } from '../physics/limits';
-
-/** The default vacuum Courant number of a D-dimensional grid: 0.99/√D (common practice: a small margin below the limit). */
-export function defaultCourant(dimensions: number): number {
-  // Written as 0.99/√D so the 3-D value is DEFAULT_COURANT bit for bit.
-  courantLimit(dimensions); // checks dimensions
-  return DEFAULT_COURANT_FRACTION / Math.sqrt(dimensions);
-}
+export { defaultCourant, gridVelocity, phaseVelocityRatio, groupVelocityRatio } from '../physics/velocity';
 
 /** α_norm = α·η₀·Δ·n of a conductivity in S/m (physics.md §3), refused when it overflows. */
 export function toNormalisedConductivity(field: string, sigma: number, cellMetres: number, index: number): number {

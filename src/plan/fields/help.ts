@@ -31,6 +31,8 @@ export function acceptedForms(f: InputField): string {
       return 'axes such as x y';
     case 'price':
       return 'a number with an optional currency and /h ($2.50/h)';
+    case 'path':
+      return 'wavelengths in the densest material (a bare number) or a length';
     case 'gap':
       return 'cells (a bare number), wavelengths ("0.5 wavelengths") or a length';
     case 'text':

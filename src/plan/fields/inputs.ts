@@ -14,9 +14,10 @@
  */
 import { MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH, MIN_CELL_METRES } from '../../physics/constants';
 import { MIN_COURANT } from '../../physics/courant';
-import { MAX_INTENSITY_ERROR, MIN_FRACTION, MIN_INTENSITY_ERROR } from '../../physics/budget';
+import { MAX_COUPLING, MAX_INTENSITY_ERROR, MIN_FRACTION, MIN_INTENSITY_ERROR } from '../../physics/budget';
 import { MAX_DESIGN_ANGLE_DEG } from '../../physics/design';
 import { MAX_PPW } from '../../physics/dispersion';
+import { MAX_PATH_WAVELENGTHS } from '../../physics/dispersion-error';
 import { MAX_AXIS_CELLS } from '../../physics/domain';
 import { DEFAULT_ABSORBER_FACTOR, DEFAULT_RING_TARGET, MAX_NODES } from '../../physics/cost';
 import { MAX_QUALITY_FACTOR } from '../../physics/ringdown';
@@ -154,10 +155,14 @@ export const INPUTS: readonly InputField[] = [
     table: true,
     slip: toleranceSlip('intensity_error'),
   }),
-  field({ name: 'coupling', kind: 'fraction', range: fractionRange, defaultText: '1', description: 'share of the echo amplitude that reaches the monitor', table: true }),
+  field({ name: 'coupling', kind: 'fraction', range: { min: MIN_FRACTION, max: MAX_COUPLING }, defaultText: '1', description: 'echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up)', table: true }),
   field({ name: 'faces_seen', kind: 'count', range: { min: 1, max: MAX_FACES_SEEN }, defaultText: '1', description: 'number of absorbing faces whose echoes reach the monitor', table: true }),
   field({ name: 'phase', kind: 'choice', choices: ['worst', 'random'], defaultText: 'worst', description: 'how echo phases combine: worst means in phase, random an RMS error', table: true }),
-  field({ name: 'share', kind: 'fraction', range: fractionRange, defaultText: '1', description: 'share of the error budget given to the absorber', table: true }),
+  field({ name: 'monitor', kind: 'choice', choices: ['intensity', 'flux'], defaultText: 'intensity', description: 'what the monitor records: a field intensity (the echo interferes) or the power flux through a plane (the cross term cancels)', table: true }),
+  field({ name: 'share', kind: 'fraction', range: fractionRange, defaultText: 'searched (the cheapest split)', description: 'share of the error budget given to the absorber, to override the planned split', table: true }),
+  field({ name: 'path', kind: 'path', range: { min: 0, max: MAX_PATH_WAVELENGTHS }, defaultText: 'none (no phase error)', description: 'propagation path to an interferometric monitor, whose phase slip on the grid counts as error', table: true }),
+  field({ name: 'resonance', kind: 'choice', choices: ['ringdown', 'line'], defaultText: 'ringdown', description: 'with q: ringdown (q sets the run length only) or line (the study measures the line, so its shift on the grid counts as error)', table: true }),
+  field({ name: 'cell_min', kind: 'length', unit: 'nm', range: { min: MIN_CELL_METRES, max: 1 }, show: NM, defaultText: 'cell/4 (cell to fix it)', description: 'finest cell the planner may choose to meet the dispersion budget', table: true }),
   field({ name: 'duration', kind: 'time', unit: 'fs', range: positive, show: { factor: 1e-15, unit: 'fs' }, defaultText: 'one of duration, passes or q', description: 'simulated time', table: true }),
   field({ name: 'passes', kind: 'number', range: { min: 0, minOpen: true, max: MAX_PASSES }, defaultText: 'one of duration, passes or q', description: 'transits of the longest side of the domain', table: true }),
   field({ name: 'q', kind: 'number', range: { min: 0, minOpen: true, max: MAX_QUALITY_FACTOR }, defaultText: 'one of duration, passes or q', description: 'quality factor of the slowest resonance (ring-down run)', table: true }),
@@ -187,7 +192,8 @@ export const INPUTS: readonly InputField[] = [
   field({ name: 'ppw', kind: 'number', range: { min: 0, minOpen: true, max: MAX_PPW }, defaultText: 'required', description: 'cells per wavelength in the background medium at this frequency', placeholder: 'P' }),
   field({ name: 'ppw_min', kind: 'number', range: { min: 0, minOpen: true, max: MAX_PPW }, defaultText: 'required', description: 'cells per wavelength in the background at the short-wavelength end of the band', placeholder: 'P' }),
   field({ name: 'ppw_max', kind: 'number', range: { min: 0, minOpen: true, max: MAX_PPW }, defaultText: 'ppw_min (one frequency)', description: 'cells per wavelength at the long-wavelength end of the band', placeholder: 'P' }),
-  field({ name: 'angle', kind: 'angle', unit: 'deg', range: { min: 0, max: 90, maxOpen: true }, defaultText: '0', description: 'angle of incidence' }),
+  field({ name: 'angle', kind: 'angle', unit: 'deg', range: { min: 0, max: 90, maxOpen: true }, defaultText: '0', description: 'angle of incidence (from the face normal, the x axis)' }),
+  field({ name: 'azimuth', kind: 'angle', unit: 'deg', range: { min: -360, max: 360 }, defaultText: '0', description: 'azimuth of the direction about the x axis (3-D grids)' }),
   field({ name: 'target', kind: 'reflection', range: { min: 0, minOpen: true, max: 1, maxOpen: true }, defaultText: 'required', description: 'required amplitude reflection |r| per face' }),
   field({ name: 'amplitude', kind: 'reflection', range: { min: 0, max: 1, maxOpen: true }, defaultText: 'required', description: 'amplitude reflection |r| of one face (not the power |r|²)' }),
   field({ name: 'max_layers', kind: 'count', range: { min: 1, max: MAX_LAYERS }, defaultText: String(MAX_LAYERS), description: 'most layers the design search may use' }),

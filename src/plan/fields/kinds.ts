@@ -6,6 +6,9 @@
  */
 import { HushInputError } from '../../physics/errors';
 import { parseGap, parsePrice, type Gap } from '../units';
+
+/** A propagation path: a number of wavelengths (a bare number) or a length. */
+export type PathLength = { wavelengths: number } | { metres: number };
 import { bareNumber, decibels, DECIMAL, EXAMPLES, percentage, readQuantity, typed, type Dimension } from './quantity';
 
 export type Kind =
@@ -21,7 +24,8 @@ export type Kind =
   | 'faces'
   | 'axes'
   | 'price'
-  | 'gap';
+  | 'gap'
+  | 'path';
 
 /** Typed value of each kind. */
 export interface KindValue {
@@ -44,6 +48,7 @@ export interface KindValue {
   axes: string[];
   price: number;
   gap: Gap;
+  path: PathLength;
 }
 
 export const DIMENSIONS: readonly Kind[] = ['length', 'time', 'frequency', 'wavelength', 'angle', 'bandwidth', 'conductivity'];
@@ -194,4 +199,11 @@ export const READERS: { [K in Kind]: Reader<K> } = {
   axes: (_f, raw) => words(raw).map((w) => w.toLowerCase()),
   price: (f, raw) => checkRange(f, parsePrice(f.name, raw), raw),
   gap: (f, raw) => parseGap(f.name, raw),
+  path: (f, raw) => {
+    const g = parseGap(f.name, typeof raw === 'number' || DECIMAL.test(String(raw).trim()) ? `${String(raw).trim()} wavelengths` : raw);
+    if ('cells' in g) throw new HushInputError(f.name, `${f.name} must be a number of wavelengths or a length such as 12 um (got ${typed(raw)})`, 'value');
+    const x = 'wavelengths' in g ? g.wavelengths : g.metres;
+    if (!(x >= 0) || !Number.isFinite(x)) throw new HushInputError(f.name, `${f.name} must be at least 0 (got ${typed(raw)})`);
+    return g;
+  },
 };

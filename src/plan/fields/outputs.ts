@@ -46,6 +46,13 @@ function col(name: string, unit: string, format: string, description: string, re
 export const OUTPUTS: readonly OutputColumn[] = [
   col('required_reflection', '|r|', SCI, 'amplitude reflection allowed per absorbing face', (p) => p.requiredReflection),
   col('required_reflection_db', 'dB', FIX1, 'the same in dB (20·log₁₀|r|)', (p) => reflectionDb(p.requiredReflection)),
+  col('error_absorber', '', SCI, "intensity error the absorber's echo causes (its part of the split)", (p) => p.accuracy.errors.absorber),
+  col('error_dispersion', '', SCI, "intensity error of the grid's dispersion (path phase slip or measured line shift; 0 when neither applies)", (p) => p.accuracy.errors.dispersion),
+  col('error_run', '', SCI, 'intensity error of the run length (ring-down residual or pulse energy left)', (p) => p.accuracy.errors.run),
+  col('error_total', '', SCI, 'the three combined as phase says (added, or in quadrature); at most intensity_error', (p) => p.accuracy.errors.combined),
+  col('cell_planned', 'm', SCI, 'cell size of the plan (cell, or finer where the dispersion budget needs it)', (p) => p.accuracy.cell),
+  col('ppw_min', 'cells/λ', FIX1, "fewest cells per wavelength (densest material, short end) within the dispersion error's share; blank without a dispersion error", (p) => p.accuracy.ppwMin),
+  col('resonance_shift', 'linewidths', '0.00', "the resonance's shift on the grid, Q·|Δf/f|; blank without q", (p) => p.accuracy.resonanceShift),
   col('layers', 'cells', '0', 'absorber thickness', (p) => p.design.layers),
   col('order', '', '0', 'polynomial grading order', (p) => p.design.order),
   col('strength', 'σmax/σopt', '0.000', 'conductivity relative to the usual optimum', (p) => p.design.strength),
@@ -78,6 +85,9 @@ export const OUTPUTS: readonly OutputColumn[] = [
   col('runtime_exchange', 'h', FIX2, 'of which halo exchange', (p) => hours(p.cost.runtime?.exchangeSeconds)),
   col('absorber_share', '%', FIX1, 'share of runtime spent in the absorber', (p) => (p.cost.runtime ? p.cost.runtime.absorberSharePercent : null)),
   col('cost', 'currency', FIX2, 'runtime × nodes × price per node-hour (planning estimate)', (p) => (p.cost.runtime ? p.cost.runtime.cost : null)),
+  col('cost_absorber', 'currency', FIX2, "what the absorber's cell updates add to the cost (planning estimate)", (p) => (p.cost.runtime && p.cost.runtime.cost !== null ? (p.cost.runtime.cost * p.cost.runtime.absorberSharePercent) / 100 : null)),
+  col('cost_refinement', 'currency', FIX2, 'what the finer planned cell adds to the cost at the same run (0 at your cell)', (p) => (p.accuracy.measure === 'price' ? p.accuracy.refinementCost : null)),
+  col('saving', 'currency', FIX2, 'how much cheaper the split is than giving the absorber all the rest at your cell and run; blank when that plan cannot meet the tolerance', (p) => (p.accuracy.measure === 'price' ? p.accuracy.saving : null)),
   col('halo_per_step', 'MB', '0.000', 'bytes crossing all cuts per step', (p) => (p.cost.parallel.nodes > 1 ? p.cost.parallel.haloBytesPerStep / 1e6 : null)),
   // Derived from the halo model only with a runtime; without one there is no efficiency to show.
   col('parallel_efficiency', '', FIX2, 'efficiency used or derived', (p) => (p.cost.parallel.model === 'halo exchange' && p.cost.runtime === null ? null : p.cost.parallel.efficiency)),
