@@ -66,6 +66,7 @@ const budgetTail: ParamSpec[] = [
   ['faces_seen', 'any', true],
   ['phase', 'any', true],
   ['share', 'any', true],
+  ['monitor', 'any', true],
 ];
 const reflectionParams: ParamSpec[] = [
   ['layers', 'any', false],

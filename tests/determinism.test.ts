@@ -169,7 +169,7 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
   });
 
   it('every demo row is planned, with numbers in every column that always has one', () => {
-    expect(expected.length).toBe(8);
+    expect(expected.length).toBe(9);
     for (const row of expected) {
       for (const n of ['required_reflection', 'layers', 'order', 'worst_reflection', 'cells_total', 'memory']) {
         expect(typeof row[OUTPUT_NAMES.indexOf(n)]).toBe('number');

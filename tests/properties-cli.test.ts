@@ -589,9 +589,13 @@ function writeTableFile(t: TableCase): { file: string; typed: string; header: st
   return { file: `${base}.csv`, typed: text, header };
 }
 
-/** Output columns that may be empty (null in JSON) in a planned row: the run, runtime, cost and halo figures. */
+/**
+ * Output columns that may be empty (null in JSON) in a planned row: the run, runtime, cost and halo figures,
+ * the dispersion and resonance figures of studies without them, and the dB value of a continuous-theory |r| that underflows to 0.
+ */
 const OPTIONAL_OUTPUTS = new Set([
   'time_step', 'simulated_time', 'steps', 'runtime', 'runtime_interior', 'runtime_absorber', 'runtime_exchange', 'absorber_share', 'cost', 'halo_per_step',
+  'ppw_min', 'resonance_shift', 'cost_absorber', 'cost_refinement', 'saving', 'continuous_reflection_db',
 ]);
 /** Columns that are given together or not at all (a NaN turned into null by JSON would break a group). */
 const GROUPS = [

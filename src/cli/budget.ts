@@ -1,5 +1,5 @@
 import { amplitudeToDb } from '../plan/fields';
-import { intensityErrorFromAmplitude, requiredAmplitude, type PhaseModel } from '../plan/steps';
+import { intensityErrorFromAmplitude, requiredAmplitude, type MonitorKind, type PhaseModel } from '../plan/steps';
 import { UsageError } from './args';
 import { fmt, fmtDb, type CommandIO } from './io';
 import { Options, type CommandSpec } from './options';
@@ -7,7 +7,7 @@ import { Options, type CommandSpec } from './options';
 export const budgetSpec: CommandSpec = {
   name: 'budget',
   summary: 'Tolerated intensity error → the amplitude reflection |r| each absorbing face may have (physics.md §1); with --amplitude, the inverse.',
-  fields: ['intensity_error', 'amplitude', 'coupling', 'faces_seen', 'phase', 'share'],
+  fields: ['intensity_error', 'amplitude', 'coupling', 'faces_seen', 'phase', 'monitor', 'share'],
   switches: { json: { help: 'print one line of JSON' } },
   notes: ['Give exactly one of --intensity-error or --amplitude.'],
 };
@@ -20,8 +20,9 @@ export function budgetCommand(argv: string[], io: CommandIO): number {
     faces: o.get<'count'>('faces_seen') ?? 1,
     phase: (o.get<'choice'>('phase') ?? 'worst') as PhaseModel,
     share: o.get<'fraction'>('share') ?? 1,
+    monitor: (o.get<'choice'>('monitor') ?? 'intensity') as MonitorKind,
   };
-  const shown = { coupling: options.coupling, faces_seen: options.faces, phase: options.phase, share: options.share };
+  const shown = { coupling: options.coupling, faces_seen: options.faces, phase: options.phase, monitor: options.monitor, share: options.share };
   const eps = o.get<'fraction'>('intensity_error');
   const amp = o.get<'reflection'>('amplitude');
   if ((eps === undefined) === (amp === undefined)) throw new UsageError('give exactly one of --intensity-error or --amplitude');

@@ -32,6 +32,7 @@ import {
   type DesignResult,
   type DesignSpec,
   type PhaseModel,
+  type MonitorKind,
   type WaveSpec,
 } from '../plan/steps';
 import { OUTPUT_NAMES, planRecord, planHeaderText, type Plan } from '../plan';
@@ -41,12 +42,13 @@ import { worksheet } from './errors';
 import { asWorksheet, designOf, planOf } from './plans';
 import { APP_VERSION } from './version';
 
-function budgetOptions(coupling: unknown, faces_seen: unknown, phase: unknown, share: unknown): BudgetOptions {
+function budgetOptions(coupling: unknown, faces_seen: unknown, phase: unknown, share: unknown, monitor: unknown): BudgetOptions {
   return {
     coupling: arg<'fraction'>('coupling', coupling),
     faces: arg<'count'>('faces_seen', faces_seen),
     phase: arg<'choice'>('phase', phase) as PhaseModel | undefined,
     share: arg<'fraction'>('share', share),
+    monitor: arg<'choice'>('monitor', monitor) as MonitorKind | undefined,
   };
 }
 
@@ -55,12 +57,14 @@ function budgetOptions(coupling: unknown, faces_seen: unknown, phase: unknown, s
  * Example: =HUSH.NEEDED_REFLECTION(0.01) → 0.00498756211208903
  * Example: =HUSH.NEEDED_REFLECTION(0.01, 1, 2, "random") → 0.00499993750273421
  * Example: =HUSH.NEEDED_REFLECTION("1%", "100%") → 0.00498756211208903
+ * Example: =HUSH.NEEDED_REFLECTION(0.01, , , , , "flux") → 0.1
  * @customfunction NEEDED_REFLECTION
  * @param intensity_error Tolerated relative intensity error at the monitor: a number or a percentage (0.01 or 1%); ≥ 1e-12, ≤ 1.
  * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
  * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
- * @param [share] Share of the error budget given to the absorber, to override the planned split: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default searched (the cheapest split).
+ * @param [share] Share of the error budget given to the absorber (in a plan, it overrides the searched split): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1 for a single budget; in a plan, the searched split.
+ * @param [monitor] What the monitor records: a field intensity (the echo interferes) or the power flux through a plane (the cross term cancels): one of intensity, flux (any letter case). Default intensity.
  * @returns Amplitude reflection |r| each face may have.
  */
 export function neededReflection(
@@ -69,11 +73,12 @@ export function neededReflection(
   faces_seen?: any,
   phase?: any,
   share?: any,
+  monitor?: any,
 ): number {
   return worksheet(() =>
     requiredAmplitude({
       intensityError: requiredArg<'fraction'>('intensity_error', intensity_error),
-      ...budgetOptions(coupling, faces_seen, phase, share),
+      ...budgetOptions(coupling, faces_seen, phase, share, monitor),
     }),
   );
 }
@@ -87,7 +92,8 @@ export function neededReflection(
  * @param [coupling] Echo amplitude at the monitor relative to the echo leaving the face (above 1 only where a resonance builds it up): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1128379.1671. Default 1.
  * @param [faces_seen] Number of absorbing faces whose echoes reach the monitor: a whole number; ≥ 1, ≤ 6. Default 1.
  * @param [phase] How echo phases combine: worst means in phase, random an RMS error: one of worst, random (any letter case). Default worst.
- * @param [share] Share of the error budget given to the absorber, to override the planned split: a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default searched (the cheapest split).
+ * @param [share] Share of the error budget given to the absorber (in a plan, it overrides the searched split): a number or a percentage (0.01 or 1%); ≥ 1e-6, ≤ 1. Default 1 for a single budget; in a plan, the searched split.
+ * @param [monitor] What the monitor records: a field intensity (the echo interferes) or the power flux through a plane (the cross term cancels): one of intensity, flux (any letter case). Default intensity.
  * @returns Relative intensity error ε (0.01 means 1 %).
  */
 export function errorFromReflection(
@@ -96,9 +102,10 @@ export function errorFromReflection(
   faces_seen?: any,
   phase?: any,
   share?: any,
+  monitor?: any,
 ): number {
   return worksheet(() =>
-    intensityErrorFromAmplitude(requiredArg<'reflection'>('amplitude', amplitude), budgetOptions(coupling, faces_seen, phase, share)),
+    intensityErrorFromAmplitude(requiredArg<'reflection'>('amplitude', amplitude), budgetOptions(coupling, faces_seen, phase, share, monitor)),
   );
 }
 

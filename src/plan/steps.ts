@@ -12,6 +12,7 @@ export {
   rippleFromReflection,
   reflectionFromRipple,
   type PhaseModel,
+  type MonitorKind,
   type BudgetOptions,
   // exact reflection and design (physics.md §2–§4)
   reflection,
