@@ -62,6 +62,10 @@ module.exports = async (env = {}, argv = {}) => {
     },
     resolve: {
       extensions: ['.ts', '.js'],
+      // src/plan/units.ts builds a unit-only mathjs instance from mathjs's factory functions; it reads them
+      // with require(), which would pick mathjs's CommonJS entry (all of mathjs). Its ES module entry lets
+      // webpack keep only the factories read.
+      alias: { mathjs$: path.join(path.dirname(require.resolve('mathjs')), '..', 'esm', 'index.js') },
     },
     module: {
       rules: [
@@ -106,6 +110,19 @@ module.exports = async (env = {}, argv = {}) => {
         ],
       }),
     ],
+    optimization: {
+      // One page runs both entries (shared runtime): the code both carry (the plan API, the physics core,
+      // the unit engine) goes once into shared.js, and one webpack runtime serves both, so each module
+      // runs once and the pane and the worksheet functions share its state (e.g. the design cache).
+      runtimeChunk: { name: 'shared' },
+      splitChunks: {
+        cacheGroups: {
+          default: false,
+          defaultVendors: false,
+          shared: { name: 'shared', chunks: 'initial', minChunks: 2, enforce: true },
+        },
+      },
+    },
     performance: { hints: false },
     devServer: {
       port,

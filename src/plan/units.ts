@@ -7,13 +7,103 @@
  * 12 significant digits so that "1550 nm" and "1.55 um" give the same number
  * (the 16th digit of a unit conversion is noise, not input).
  */
-import { create, unitDependencies, type Unit } from 'mathjs';
+import type { FactoryFunctionMap, MathJsInstance, Unit } from 'mathjs';
 import { SPEED_OF_LIGHT } from '../physics/constants';
 import { HushInputError } from '../physics/errors';
 
-const math = create({ unitDependencies });
-
 type MathUnit = Unit;
+
+/** Defined only inside a webpack bundle (webpack replaces `typeof __webpack_require__` by "function"). */
+declare const __webpack_require__: unknown;
+
+/** What this module takes from mathjs: `create`, `factory` and the factory functions named in unitEngine. */
+type MathjsModule = Record<string, unknown>;
+
+/** Loads mathjs's entry in the add-in bundle, and in Node only the modules the unit engine is built from (see unitEngine). */
+function mathjsModules(): MathjsModule {
+  if (typeof __webpack_require__ === 'function') {
+    // Destructured where it is required, so webpack sees which exports are used and drops the rest.
+    const {
+      create, factory, createUnitClass, createUnitFunction, createTyped, createComplexClass, createFractionClass, createFraction, createNumber,
+      createNumeric, createIsNumeric, createFormat, createAbs, createAddScalar, createSubtractScalar, createMultiplyScalar, createDivideScalar, createPow,
+    } = require('mathjs');
+    return {
+      create, factory, createUnitClass, createUnitFunction, createTyped, createComplexClass, createFractionClass, createFraction, createNumber,
+      createNumeric, createIsNumeric, createFormat, createAbs, createAddScalar, createSubtractScalar, createMultiplyScalar, createDivideScalar, createPow,
+    };
+  }
+  const path = require('path') as typeof import('path');
+  const lib = path.dirname(require.resolve('mathjs'));
+  const files = [
+    'type/unit/Unit.js', 'type/unit/function/unit.js', 'core/function/typed.js',
+    'type/complex/Complex.js', 'type/fraction/Fraction.js', 'type/fraction/function/fraction.js', 'type/number.js',
+    'function/utils/numeric.js', 'function/utils/isNumeric.js', 'function/string/format.js', 'function/arithmetic/abs.js',
+    'function/arithmetic/addScalar.js', 'function/arithmetic/subtractScalar.js', 'function/arithmetic/multiplyScalar.js',
+    'function/arithmetic/divideScalar.js', 'function/arithmetic/pow.js',
+  ];
+  const load = (file: string): MathjsModule => require(path.join(lib, file));
+  // Each factory module exports its create* function; utils/factory.js also has a `create` of its own, so the two helpers are taken by name.
+  return { ...Object.assign({}, ...files.map(load)), create: load('core/create.js').create, factory: load('utils/factory.js').factory };
+}
+
+/**
+ * The unit engine: a mathjs instance made by `create` from mathjs's own
+ * factory functions ("Custom bundling", mathjs documentation), created on
+ * the first quantity parsed: the Unit class and the unit function,
+ * typed-function, the Complex and Fraction types (unit definitions use both:
+ * VAR is Complex.I, degF is Fraction(5, 9)), and the scalar functions Unit
+ * calls (add, subtract, multiply, divide, pow, abs, number, fraction, format,
+ * isNumeric). mathjs's `unitDependencies` would also bring matrices,
+ * determinants and BigNumber (decimal.js), for pow's matrix powers and the
+ * matrix forms of round, fix and equal; Unit reaches those only from
+ * splitUnit, equals and config.number = 'BigNumber', which this module never
+ * calls or sets, so here they are placeholders that throw if reached.
+ *
+ * In the add-in bundle webpack keeps only these factories of mathjs's ES
+ * module entry (webpack.config.js points `mathjs` at it; each member read
+ * below is what it keeps). In Node, mathjs's package "exports" offer only the
+ * full entry, which builds every mathjs function when loaded (0.8 s of CPU),
+ * so the same factory modules are read from its CommonJS folder by path.
+ */
+function unitEngine(): MathJsInstance {
+  const m = mathjsModules();
+  type Factory = FactoryFunctionMap[string];
+  const factory = m.factory as (name: string, dependencies: string[], make: () => unknown) => Factory;
+  const absent = (name: string) =>
+    factory(name, [], () => () => {
+      throw new Error(`mathjs ${name} is not part of the unit-only instance of src/plan/units.ts`);
+    });
+  const factories: FactoryFunctionMap = {
+    createUnitClass: m.createUnitClass as Factory,
+    createUnitFunction: m.createUnitFunction as Factory,
+    createTyped: m.createTyped as Factory,
+    createComplexClass: m.createComplexClass as Factory,
+    createFractionClass: m.createFractionClass as Factory,
+    createFraction: m.createFraction as Factory,
+    createNumber: m.createNumber as Factory,
+    createNumeric: m.createNumeric as Factory,
+    createIsNumeric: m.createIsNumeric as Factory,
+    createFormat: m.createFormat as Factory,
+    createAbs: m.createAbs as Factory,
+    createAddScalar: m.createAddScalar as Factory,
+    createSubtractScalar: m.createSubtractScalar as Factory,
+    createMultiplyScalar: m.createMultiplyScalar as Factory,
+    createDivideScalar: m.createDivideScalar as Factory,
+    createPow: m.createPow as Factory,
+  };
+  for (const name of ['BigNumber', 'round', 'fix', 'equal', 'matrix', 'identity', 'multiply', 'inv']) factories[`absent ${name}`] = absent(name);
+  return (m.create as (factories: FactoryFunctionMap) => MathJsInstance)(factories);
+}
+
+let engine: MathJsInstance | undefined;
+
+/** The unit engine's `unit` function (the engine is made on first use). */
+const math = {
+  unit(...args: [string] | [number, string]): MathUnit {
+    engine ??= unitEngine();
+    return (engine.unit as (...a: unknown[]) => MathUnit)(...args);
+  },
+};
 
 /** Significant digits kept from a parsed value (see the module comment). */
 export const UNIT_DIGITS = 12;
@@ -76,19 +166,26 @@ function parseUnit(field: string, text: string, expected: string): MathUnit {
   return u;
 }
 
-const reference = {
-  length: math.unit('1 m'),
-  frequency: math.unit('1 Hz'),
-  time: math.unit('1 s'),
-  angle: math.unit('1 rad'),
-  bandwidth: math.unit('1 B/s'),
-};
+type Kind = 'length' | 'frequency' | 'time' | 'angle' | 'bandwidth';
+let references: Record<Kind, MathUnit> | undefined;
 
-function quantity(field: string, v: FieldValue, kind: keyof typeof reference, siUnit: string, defaultUnit: string, expected: string): number {
+/** One unit of each kind of quantity, to compare dimensions with (made on first use, like the engine). */
+function reference(): Record<Kind, MathUnit> {
+  references ??= {
+    length: math.unit('1 m'),
+    frequency: math.unit('1 Hz'),
+    time: math.unit('1 s'),
+    angle: math.unit('1 rad'),
+    bandwidth: math.unit('1 B/s'),
+  };
+  return references;
+}
+
+function quantity(field: string, v: FieldValue, kind: Kind, siUnit: string, defaultUnit: string, expected: string): number {
   const bare = bareNumber(field, v);
   if (bare !== null) return canonical(finite(field, math.unit(bare, defaultUnit).toNumber(siUnit), v));
   const u = parseUnit(field, v as string, expected);
-  if (!u.equalBase(reference[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
+  if (!u.equalBase(reference()[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
   return canonical(finite(field, u.toNumber(siUnit), v));
 }
 
@@ -131,8 +228,8 @@ export function parseWavelength(field: string, v: FieldValue, defaultUnit = 'nm'
   const bare = bareNumber(field, v);
   if (bare !== null) return positive(field, canonical(finite(field, math.unit(bare, defaultUnit).toNumber('m'), v)), v);
   const u = parseUnit(field, v as string, expected);
-  if (u.equalBase(reference.length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
-  if (u.equalBase(reference.frequency)) {
+  if (u.equalBase(reference().length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
+  if (u.equalBase(reference().frequency)) {
     const f = positive(field, finite(field, u.toNumber('Hz'), v), v);
     return canonical(finite(field, SPEED_OF_LIGHT / f, v));
   }
@@ -172,7 +269,7 @@ export function parseGap(field: string, v: FieldValue): Gap {
   const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(cells?|wavelengths?|λ|lambda)$/i.exec(t);
   if (m) return /^cell/i.test(m[2]) ? { cells: finite(field, Number(m[1]), v) } : { wavelengths: finite(field, Number(m[1]), v) };
   const u = parseUnit(field, t, 'a number of cells, of wavelengths, or a length');
-  if (!u.equalBase(reference.length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
+  if (!u.equalBase(reference().length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
   return { metres: canonical(finite(field, u.toNumber('m'), v)) };
 }
 
