@@ -62,10 +62,9 @@ module.exports = async (env = {}, argv = {}) => {
     },
     resolve: {
       extensions: ['.ts', '.js'],
-      // src/plan/units.ts builds a unit-only mathjs instance from mathjs's factory functions; it reads them
-      // with require(), which would pick mathjs's CommonJS entry (all of mathjs). Its ES module entry lets
-      // webpack keep only the factories read.
-      alias: { mathjs$: path.join(path.dirname(require.resolve('mathjs')), '..', 'esm', 'index.js') },
+      // src/plan/units.ts builds its unit engine from four of mathjs's ES modules, read by path
+      // (mathjs's package exports offer only its whole entry); this is where that path points.
+      alias: { 'mathjs/lib/esm': path.join(path.dirname(require.resolve('mathjs')), '..', 'esm') },
     },
     module: {
       rules: [
