@@ -137,5 +137,5 @@ export const fmt = {
   ratio: (x: number) => `${x.toFixed(2)}×`,
   rate: (x: number) => x.toExponential(3),
   mib: (kib: number) => `${(kib / 1024).toFixed(0)} MiB`,
-  range: (s: Summary, unit: (x: number) => string, noun = 'pairs') => `${unit(s.min)}–${unit(s.max)} (${s.count} ${noun})`,
+  range: (s: Summary, unit: (x: number) => string, noun = 'pairs') => `${unit(s.min)}–${unit(s.max)} (${s.count} ${s.count === 1 ? noun.replace(/s$/, '') : noun})`,
 };
