@@ -62,6 +62,9 @@ module.exports = async (env = {}, argv = {}) => {
     },
     resolve: {
       extensions: ['.ts', '.js'],
+      // src/plan/units.ts builds its unit engine from four of mathjs's ES modules, read by path
+      // (mathjs's package exports offer only its whole entry); this is where that path points.
+      alias: { 'mathjs/lib/esm': path.join(path.dirname(require.resolve('mathjs')), '..', 'esm') },
     },
     module: {
       rules: [
@@ -106,6 +109,19 @@ module.exports = async (env = {}, argv = {}) => {
         ],
       }),
     ],
+    optimization: {
+      // One page runs both entries (shared runtime): the code both carry (the plan API, the physics core,
+      // the unit engine) goes once into shared.js, and one webpack runtime serves both, so each module
+      // runs once and the pane and the worksheet functions share its state (e.g. the design cache).
+      runtimeChunk: { name: 'shared' },
+      splitChunks: {
+        cacheGroups: {
+          default: false,
+          defaultVendors: false,
+          shared: { name: 'shared', chunks: 'initial', minChunks: 2, enforce: true },
+        },
+      },
+    },
     performance: { hints: false },
     devServer: {
       port,

@@ -8,50 +8,30 @@
  * apt-get install -y chromium); under CI (CI=true) a missing browser fails.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { spawnSync } from 'child_process';
 import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
 import type { AddressInfo } from 'net';
 import { parseCsv } from '../src/plan/csv';
 import { OUTPUT_NAMES, headerName, planRow, planToRow, rowFromTable } from '../src/plan';
+import { webBuild } from './support/web-build';
 
 const ROOT = path.resolve(__dirname, '..');
-const DIST = path.join(ROOT, 'dist', 'web');
 const ARTIFACTS = path.join(ROOT, 'test-artifacts');
 const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
 const haveBrowser = fs.existsSync(CHROMIUM);
 const onCi = process.env.CI === 'true';
+/**
+ * How long a wait for the page may take before it counts as hung: a safety net
+ * as generous as the suite's (vitest.config.mts), not a bound a loaded machine
+ * could trip; the work each wait covers is bounded by the page itself.
+ */
+const HUNG = 600_000;
 
 if (!haveBrowser) {
   const text = `browser tests skipped: no Chromium at ${CHROMIUM}; install one with "apt-get install -y chromium" (or set CHROMIUM_PATH)`;
   if (onCi) throw new Error(`${text} — required under CI`);
   console.warn(text);
-}
-
-/** Newest modification time under the pane's sources (taskpane, src, assets). */
-function newestSource(): number {
-  let newest = 0;
-  const walk = (dir: string) => {
-    for (const e of fs.readdirSync(dir, { withFileTypes: true })) {
-      const p = path.join(dir, e.name);
-      if (e.isDirectory()) walk(p);
-      else newest = Math.max(newest, fs.statSync(p).mtimeMs);
-    }
-  };
-  for (const d of ['taskpane', 'src', 'assets']) walk(path.join(ROOT, d));
-  newest = Math.max(newest, fs.statSync(path.join(ROOT, 'webpack.config.js')).mtimeMs);
-  return newest;
-}
-
-function ensureBuilt(): void {
-  const bundle = path.join(DIST, 'taskpane.js');
-  if (fs.existsSync(bundle) && fs.statSync(bundle).mtimeMs >= newestSource()) return;
-  const r = spawnSync(process.execPath, [path.join(ROOT, 'node_modules', 'webpack-cli', 'bin', 'cli.js'), '--mode', 'production'], {
-    cwd: ROOT,
-    encoding: 'utf8',
-  });
-  if (r.status !== 0) throw new Error(`webpack build failed:\n${r.stdout}\n${r.stderr}`);
 }
 
 /** Demo row used throughout: the half-domain waveguide (3-D, 10°, one wavelength), whose 2-D run fits the pane's budget. */
@@ -73,7 +53,7 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
   let userDir = '';
 
   beforeAll(async () => {
-    ensureBuilt();
+    const DIST = webBuild(); // the build tests/build.test.ts checks (built once per change)
     // eslint-disable-next-line @typescript-eslint/no-require-imports
     const { serve } = require('../scripts/preview.js') as { serve: (dir: string, port: number) => Promise<{ server: import('http').Server; url: string }> };
     const s = await serve(DIST, 0);
@@ -89,12 +69,13 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     });
     context.on('request', (r) => requests.push(r.url()));
     page = context.pages()[0] ?? (await context.newPage());
+    page.setDefaultTimeout(HUNG);
     page.on('pageerror', (e) => pageErrors.push(`${e.message}\n${e.stack ?? ''}`));
     await page.goto(s.url);
-    await page.waitForSelector('#options tbody tr', { timeout: 30_000 });
+    await page.waitForSelector('#options tbody tr', { timeout: HUNG });
     await page.selectOption('#row-picker', String(DEMO_ROW));
-    await page.waitForFunction((label) => document.getElementById('study-title')?.textContent?.includes(label), 'Jetty', { timeout: 30_000 });
-  }, 180_000);
+    await page.waitForFunction((label) => document.getElementById('study-title')?.textContent?.includes(label), 'Jetty', { timeout: HUNG });
+  });
 
   afterAll(async () => {
     await context?.close();
@@ -149,8 +130,8 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
 
   it('verifies the design by the 1-D and 2-D time-domain runs within 1 %', async () => {
     await page.click('#verify');
-    await expect.poll(async () => page.locator('#cancel').isEnabled(), { timeout: 5_000 }).toBe(true);
-    await page.waitForSelector('#verify-result[data-difference]', { timeout: 120_000 });
+    await expect.poll(async () => page.locator('#cancel').isEnabled(), { timeout: HUNG }).toBe(true);
+    await page.waitForSelector('#verify-result[data-difference]', { timeout: HUNG });
     const diff = Number(await page.getAttribute('#verify-result', 'data-difference'));
     // The exact model is exact for the discrete equations (physics.md §3): the runs must agree to the measurement's accuracy.
     expect(diff).toBeLessThanOrEqual(0.01);
@@ -158,13 +139,13 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     expect(text).toMatch(/1-D run and [1-9]\d* of the 2-D run/);
     expect(await page.locator('#chart-ppw .legend').textContent()).toContain('1-D run, measured');
     expect(await page.locator('#chart-ppw .legend').textContent()).toMatch(/2-D run at [0-9.]+°, measured/);
-  }, 150_000);
+  });
 
   it('cancels a running verification', async () => {
     await page.click('#verify');
-    await expect.poll(async () => page.locator('#cancel').isEnabled(), { timeout: 5_000 }).toBe(true);
+    await expect.poll(async () => page.locator('#cancel').isEnabled(), { timeout: HUNG }).toBe(true);
     await page.click('#cancel');
-    await expect.poll(async () => page.textContent('#verify-stage'), { timeout: 10_000 }).toBe('cancelled');
+    await expect.poll(async () => page.textContent('#verify-stage'), { timeout: HUNG }).toBe('cancelled');
     expect(await page.locator('#verify').isEnabled()).toBe(true);
   });
 
@@ -174,7 +155,7 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     const header = await page.$$eval('#demo-table thead th', (ths) => ths.slice(1).map((th) => th.textContent ?? ''));
     const before = await snapshot();
     await page.click('#apply');
-    await page.waitForSelector('#apply-result.ok', { timeout: 10_000 });
+    await page.waitForSelector('#apply-result.ok', { timeout: HUNG });
     const after = await snapshot();
     const changed: string[] = [];
     before.forEach((r, ri) => r.forEach((v, ci) => v !== after[ri][ci] && changed.push(`${ri}:${ci}`)));

@@ -33,6 +33,16 @@ function worstOver(spec: DesignSpec, design: { layers: number; order: number; st
   return w;
 }
 
+/** Index of a sample where |r| exceeds the target, searching from `start` round the list; -1 when every sample meets it. */
+function firstAbove(spec: DesignSpec, design: Parameters<typeof worstOver>[1], samples: { ppw: number; angle: number }[], start: number): number {
+  for (let i = 0; i < samples.length; i++) {
+    const k = (start + i) % samples.length;
+    const r = reflection(design, { ppw: samples[k].ppw, angleDeg: samples[k].angle, courant: spec.courant, index: spec.index, dimensions: spec.dimensions });
+    if (r.amplitude > spec.target) return k;
+  }
+  return -1;
+}
+
 /** Deterministic generator (mulberry32) so the sweep is the same every run. */
 function rng(seed: number) {
   return () => {
@@ -110,16 +120,19 @@ describe('absorber design (issue: thinnest absorber that meets a tolerated error
   });
 
   it('and is minimal: N − 1 layers fails the dense check at every strength of a fine independent scan', () => {
+    // Failing the dense check needs one dense sample above the target, so each strength stops at the first
+    // one found; the search starts from the sample that failed the previous strength (any order gives the same verdict).
     for (const spec of specs) {
       const samples = denseSamples(spec);
       for (const d of designOptions(spec)) {
         if (d.layers === 1) continue;
-        let best = Infinity;
+        let start = 0;
         for (let k = 0; k <= 60; k++) {
           const strength = 0.05 * Math.pow(400, k / 60);
-          best = Math.min(best, worstOver(spec, { ...d, layers: d.layers - 1, strength }, samples));
+          const failing = firstAbove(spec, { ...d, layers: d.layers - 1, strength }, samples, start);
+          expect(failing, JSON.stringify({ spec, d, thinner: d.layers - 1, strength })).toBeGreaterThanOrEqual(0);
+          start = failing;
         }
-        expect(best, JSON.stringify({ spec, d })).toBeGreaterThan(spec.target);
       }
     }
   });

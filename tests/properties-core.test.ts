@@ -16,9 +16,10 @@ import {
   requiredAmplitude,
   rippleFromReflection,
 } from '../src/physics';
+import { propertyRuns } from './support/property-runs';
 import { DESIGN_WORK_BOUND, workMeter } from './support/work-bound';
 
-/** Fixed seed: the same 10,000 calls on every run. */
+/** Fixed seed: the same calls on every run. */
 const SEED = Number(process.env.HUSH_PROPERTY_SEED ?? 3_2025);
 
 const anyValue = fc.oneof(
@@ -62,7 +63,14 @@ function check(call: () => unknown, workBound = 0) {
   expect(used).toBeLessThanOrEqual(workBound);
 }
 
-const RUNS = 10_000;
+/**
+ * Random calls per property: 10,000 in the full run (tests/support/property-runs.ts;
+ * a default run checks the full run's first cases). The cheap properties keep
+ * all 10,000 by default (about 1-3 s each on a quiet 2-core machine); the design
+ * search takes 30 s per 10,000 there, so a default run does 1,000 of them.
+ */
+const RUNS = propertyRuns(10_000);
+const DESIGN_RUNS = propertyRuns(1_000);
 
 describe('property: core functions never crash, never return NaN', () => {
   it(`reflection (${RUNS} calls)`, () => {
@@ -73,12 +81,12 @@ describe('property: core functions never crash, never return NaN', () => {
       { numRuns: RUNS, seed: SEED },
     );
   });
-  it(`designOptions (${RUNS} calls)`, () => {
+  it(`designOptions (${DESIGN_RUNS} calls)`, () => {
     fc.assert(
       fc.property(plausible(1e-8, 0.5), plausible(3, 60), plausible(3, 200), plausible(0, 89), plausible(1, 4), (t, p1, p2, ang, n) =>
         check(() => designOptions({ target: t as number, ppwMin: p1 as number, ppwMax: p2 as number, angleMaxDeg: ang as number, index: n as number }), DESIGN_WORK_BOUND),
       ),
-      { numRuns: RUNS, seed: SEED },
+      { numRuns: DESIGN_RUNS, seed: SEED },
     );
   });
   it(`budget both ways (${RUNS} calls each)`, () => {
@@ -108,7 +116,8 @@ describe('property: core functions never crash, never return NaN', () => {
  * values or a HushInputError, whatever it is given. No expected value has a
  * source here because none is checked, only the contract.
  */
-const PUBLIC_CALLS = 2_000;
+/** Random calls per public function: 2,000 in the full run (a fifth of the others), 500 by default (about 40 functions, 8 s per 2,000 each on a quiet 2-core machine). */
+const PUBLIC_CALLS = propertyRuns(500, 0.2);
 /** Functions with their own tests: caches, counters, and the measurement runs (async or step by step). */
 const OWN_TESTS = new Set(['clearDesignCache', 'designWork', 'runInChunks']);
 /** The functions that run a design search, bounded by the design-work bound; every other one may do none. */
@@ -178,5 +187,5 @@ describe('property: every public core function keeps the error contract (contrac
     expect(tested).toContain('reflection');
     expect(tested).toContain('numericalPhaseVelocity');
     expect(tested.length).toBeGreaterThan(30);
-  }, 600_000);
+  });
 });

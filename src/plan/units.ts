@@ -2,18 +2,193 @@
  * Quantities with units, as typed in a project table or on the command line:
  * "1550 nm", "193 THz", "0.8 um", "30 GHz", "2.5 h", "500 fs", "10 GB/s".
  * A bare number takes the field's default unit (fields.ts lists them). Units
- * are parsed by a limited mathjs instance (units only, created once); each
+ * are parsed by mathjs's Unit class alone (made on first use); each
  * distinct text is parsed once and cached. Values come back in SI, rounded to
  * 12 significant digits so that "1550 nm" and "1.55 um" give the same number
  * (the 16th digit of a unit conversion is noise, not input).
  */
-import { create, unitDependencies, type Unit } from 'mathjs';
+import type { Unit } from 'mathjs';
 import { SPEED_OF_LIGHT } from '../physics/constants';
 import { HushInputError } from '../physics/errors';
 
-const math = create({ unitDependencies });
-
 type MathUnit = Unit;
+
+/** Defined only inside a webpack bundle (webpack replaces `typeof __webpack_require__` by "function"). */
+declare const __webpack_require__: unknown;
+
+/** A mathjs factory function: called with its dependencies by name, returns what it makes. */
+type Factory = (dependencies: Record<string, unknown>) => unknown;
+
+/** What the unit engine takes from mathjs (see unitEngine). */
+interface MathjsParts {
+  createUnitClass: Factory;
+  createComplexClass: Factory;
+  createFractionClass: Factory;
+  format: (value: unknown, options?: object) => string;
+}
+
+/**
+ * The four mathjs modules the unit engine is made of. mathjs's package
+ * "exports" offer only its whole entry, which in Node builds every mathjs
+ * function when loaded (0.8 s of CPU), so the modules are read by path: in
+ * Node from its CommonJS folder, in the add-in bundle from its ES module
+ * folder (webpack.config.js resolves `mathjs/lib/esm`; destructured where
+ * required, so webpack keeps only what is read).
+ */
+/* eslint-disable @typescript-eslint/no-require-imports -- the parts are required by path (above): no import form reaches them */
+function mathjsParts(): MathjsParts {
+  if (typeof __webpack_require__ === 'function') {
+    const { createUnitClass } = require('mathjs/lib/esm/type/unit/Unit.js');
+    const { createComplexClass } = require('mathjs/lib/esm/type/complex/Complex.js');
+    const { createFractionClass } = require('mathjs/lib/esm/type/fraction/Fraction.js');
+    const { format } = require('mathjs/lib/esm/utils/string.js');
+    return { createUnitClass, createComplexClass, createFractionClass, format };
+  }
+  const path = require('path') as typeof import('path');
+  const lib = path.dirname(require.resolve('mathjs'));
+  const from = (file: string) => require(path.join(lib, file));
+  return {
+    createUnitClass: from('type/unit/Unit.js').createUnitClass,
+    createComplexClass: from('type/complex/Complex.js').createComplexClass,
+    createFractionClass: from('type/fraction/Fraction.js').createFractionClass,
+    format: from('utils/string.js').format,
+  };
+}
+/* eslint-enable @typescript-eslint/no-require-imports */
+
+/** A mathjs Complex number or Fraction, as far as the engine's arithmetic uses them. */
+interface Arithmetic<T> {
+  add(b: T): T;
+  sub(b: T): T;
+  mul(b: T): T;
+  div(b: T): T;
+  abs(): T | number;
+  valueOf(): number;
+}
+interface ComplexNumber extends Arithmetic<ComplexNumber> {
+  pow(b: ComplexNumber | number, im?: number): ComplexNumber;
+}
+interface FractionNumber extends Arithmetic<FractionNumber> {
+  pow(b: FractionNumber): FractionNumber | null;
+}
+type Scalar = number | ComplexNumber | FractionNumber;
+
+/** mathjs's type tests (mathjs src/utils/is.js): by the prototype's flag. */
+const hasFlag = (x: unknown, flag: 'isComplex' | 'isFraction' | 'isBigNumber'): boolean =>
+  typeof x === 'object' && x !== null && (Object.getPrototypeOf(x) as Record<string, unknown>)[flag] === true;
+
+function notInEngine(what: string): never {
+  throw new TypeError(`${what} is not part of the unit engine of src/plan/units.ts`);
+}
+
+/**
+ * The unit engine: mathjs's Unit class (its parser, its unit and prefix
+ * tables, its conversions and formatting), made on the first quantity parsed
+ * by mathjs's own factory functions (createUnitClass, createComplexClass,
+ * createFractionClass), with the scalar arithmetic it depends on written out
+ * for the three value types a unit can hold here instead of mathjs's typed
+ * functions, so that only the unit parsing parts load: in Node 4 modules of
+ * mathjs (and what they import: 20 files) instead of its whole entry, which
+ * builds every function when loaded (0.8 s of CPU); in the add-in bundle 22 KB
+ * of gzipped JavaScript instead of `create({ unitDependencies })`'s 66 KB.
+ *
+ * Values are numbers (config.number = 'number', mathjs's default), the VAR
+ * unit's value is Complex.I and degF's and degR's are Fraction(5, 9). The
+ * arithmetic is mathjs's for those types: src/plain/number/arithmetic.js for
+ * two numbers and pow's _pow (src/function/arithmetic/pow.js, with the default
+ * config.predictable = false); otherwise its 'Fraction, Fraction' signatures
+ * when no operand is Complex, else its 'Complex, Complex' ones, after the
+ * conversions of its typed functions (src/core/function/typed.js: number ->
+ * Fraction only when exact, number or Fraction -> Complex(x, 0)). What Unit
+ * uses only to split a unit, to compare two units' values or with
+ * config.number = 'BigNumber' (fix, round, equal, BigNumber) is left out and
+ * throws if reached: none of the parsers here reaches it.
+ */
+function unitEngine(): { unit(...args: [string] | [number, string]): MathUnit } {
+  const { createUnitClass, createComplexClass, createFractionClass, format } = mathjsParts();
+  const Complex = createComplexClass({}) as new (re: number, im: number) => ComplexNumber;
+  const Fraction = createFractionClass({}) as new (x: number) => FractionNumber;
+  const complex = (x: unknown): ComplexNumber =>
+    hasFlag(x, 'isComplex')
+      ? (x as ComplexNumber)
+      : typeof x === 'number' || hasFlag(x, 'isFraction')
+        ? new Complex((x as number | FractionNumber).valueOf(), 0)
+        : notInEngine(`arithmetic on ${typeof x}`);
+  const fraction = (x: number | FractionNumber): FractionNumber => {
+    if (typeof x !== 'number') return x;
+    const f = new Fraction(x);
+    if (f.valueOf() !== x) {
+      throw new TypeError(`Cannot implicitly convert a number to a Fraction when there will be a loss of precision (value: ${x}). Use function fraction(x) to convert to Fraction.`);
+    }
+    return f;
+  };
+  const real = (x: unknown): x is number | FractionNumber => typeof x === 'number' || hasFlag(x, 'isFraction');
+  const scalar =
+    (
+      onNumbers: (a: number, b: number) => Scalar,
+      onFractions: (a: FractionNumber, b: FractionNumber) => Scalar,
+      onComplex: (a: ComplexNumber, b: ComplexNumber) => ComplexNumber,
+    ) =>
+    (a: unknown, b: unknown): Scalar =>
+      typeof a === 'number' && typeof b === 'number'
+        ? onNumbers(a, b)
+        : real(a) && real(b)
+          ? onFractions(fraction(a), fraction(b))
+          : onComplex(complex(a), complex(b));
+  // powNumber of mathjs src/plain/number/arithmetic.js
+  const powNumber = (x: number, y: number): number => ((x * x < 1 && y === Infinity) || (x * x > 1 && y === -Infinity) ? 0 : Math.pow(x, y));
+  // _pow of mathjs src/function/arithmetic/pow.js, config.predictable = false
+  const powNumbers = (x: number, y: number): Scalar => {
+    if (Number.isInteger(y) || x >= 0) return powNumber(x, y);
+    if ((x * x < 1 && y === Infinity) || (x * x > 1 && y === -Infinity)) return 0;
+    return new Complex(x, 0).pow(y, 0);
+  };
+  const absent = (name: string) => () => notInEngine(`mathjs ${name}`);
+  const Unit = createUnitClass({
+    config: { number: 'number', predictable: false }, // mathjs's defaults, the only settings Unit reads
+    addScalar: scalar((a, b) => a + b, (a, b) => a.add(b), (a, b) => a.add(b)),
+    subtractScalar: scalar((a, b) => a - b, (a, b) => a.sub(b), (a, b) => a.sub(b)),
+    multiplyScalar: scalar((a, b) => a * b, (a, b) => a.mul(b), (a, b) => a.mul(b)),
+    divideScalar: scalar((a, b) => a / b, (a, b) => a.div(b), (a, b) => a.div(b)),
+    pow: scalar(powNumbers, (a, b) => a.pow(b) ?? powNumbers(a.valueOf(), b.valueOf()), (a, b) => a.pow(b)),
+    abs: (x: unknown) => (typeof x === 'number' ? Math.abs(x) : hasFlag(x, 'isFraction') ? (x as FractionNumber).abs() : complex(x).abs()),
+    // mathjs's number of a number or a Fraction (src/type/number.js)
+    number: (x: unknown) => (real(x) ? x.valueOf() : notInEngine(`number of ${typeof x}`)),
+    // isNumeric of mathjs src/function/utils/isNumeric.js for the values a Unit can hold
+    isNumeric: (x: unknown) =>
+      typeof x === 'number' || typeof x === 'boolean' || typeof x === 'bigint' || hasFlag(x, 'isFraction') || hasFlag(x, 'isBigNumber')
+        ? true
+        : x === null || x === undefined || typeof x === 'string' || hasFlag(x, 'isComplex') || (x as { isUnit?: boolean }).isUnit === true
+          ? false
+          : notInEngine(`isNumeric of ${typeof x}`),
+    format, // mathjs's format function is this one for every argument (src/function/string/format.js)
+    Complex,
+    Fraction,
+    fix: absent('fix'),
+    round: absent('round'),
+    equal: absent('equal'),
+    BigNumber: absent('BigNumber'),
+  }) as { new (value: unknown, unit?: string | null): MathUnit; parse(text: string, options?: { allowNoUnits?: boolean }): MathUnit; isValuelessUnit(text: string): boolean };
+  return {
+    // mathjs's unit function (src/type/unit/function/unit.js) for a text, or a number and a unit
+    unit: (...args: [string] | [number, string]): MathUnit =>
+      args.length === 2
+        ? new Unit(args[0], args[1])
+        : Unit.isValuelessUnit(args[0])
+          ? new Unit(null, args[0])
+          : Unit.parse(args[0], { allowNoUnits: true }),
+  };
+}
+
+let engine: ReturnType<typeof unitEngine> | undefined;
+
+/** The unit engine's `unit` function (the engine is made on first use). */
+const math = {
+  unit(...args: [string] | [number, string]): MathUnit {
+    engine ??= unitEngine();
+    return engine.unit(...args);
+  },
+};
 
 /** Significant digits kept from a parsed value (see the module comment). */
 export const UNIT_DIGITS = 12;
@@ -76,19 +251,26 @@ function parseUnit(field: string, text: string, expected: string): MathUnit {
   return u;
 }
 
-const reference = {
-  length: math.unit('1 m'),
-  frequency: math.unit('1 Hz'),
-  time: math.unit('1 s'),
-  angle: math.unit('1 rad'),
-  bandwidth: math.unit('1 B/s'),
-};
+type Kind = 'length' | 'frequency' | 'time' | 'angle' | 'bandwidth';
+let references: Record<Kind, MathUnit> | undefined;
 
-function quantity(field: string, v: FieldValue, kind: keyof typeof reference, siUnit: string, defaultUnit: string, expected: string): number {
+/** One unit of each kind of quantity, to compare dimensions with (made on first use, like the engine). */
+function reference(): Record<Kind, MathUnit> {
+  references ??= {
+    length: math.unit('1 m'),
+    frequency: math.unit('1 Hz'),
+    time: math.unit('1 s'),
+    angle: math.unit('1 rad'),
+    bandwidth: math.unit('1 B/s'),
+  };
+  return references;
+}
+
+function quantity(field: string, v: FieldValue, kind: Kind, siUnit: string, defaultUnit: string, expected: string): number {
   const bare = bareNumber(field, v);
   if (bare !== null) return canonical(finite(field, math.unit(bare, defaultUnit).toNumber(siUnit), v));
   const u = parseUnit(field, v as string, expected);
-  if (!u.equalBase(reference[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
+  if (!u.equalBase(reference()[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
   return canonical(finite(field, u.toNumber(siUnit), v));
 }
 
@@ -131,8 +313,8 @@ export function parseWavelength(field: string, v: FieldValue, defaultUnit = 'nm'
   const bare = bareNumber(field, v);
   if (bare !== null) return positive(field, canonical(finite(field, math.unit(bare, defaultUnit).toNumber('m'), v)), v);
   const u = parseUnit(field, v as string, expected);
-  if (u.equalBase(reference.length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
-  if (u.equalBase(reference.frequency)) {
+  if (u.equalBase(reference().length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
+  if (u.equalBase(reference().frequency)) {
     const f = positive(field, finite(field, u.toNumber('Hz'), v), v);
     return canonical(finite(field, SPEED_OF_LIGHT / f, v));
   }
@@ -172,7 +354,7 @@ export function parseGap(field: string, v: FieldValue): Gap {
   const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(cells?|wavelengths?|λ|lambda)$/i.exec(t);
   if (m) return /^cell/i.test(m[2]) ? { cells: finite(field, Number(m[1]), v) } : { wavelengths: finite(field, Number(m[1]), v) };
   const u = parseUnit(field, t, 'a number of cells, of wavelengths, or a length');
-  if (!u.equalBase(reference.length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
+  if (!u.equalBase(reference().length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
   return { metres: canonical(finite(field, u.toNumber('m'), v)) };
 }
 
