@@ -185,7 +185,7 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
 
   it('hush plan (.json twice, .csv twice, .xlsx), HUSH.PLAN and the task pane adapter, warm caches', async () => {
     for (const [name, got] of Object.entries(await allInProcess('warm'))) expectIdentical(name, got, expected);
-  }, 60_000);
+  });
 
   it('the same with the plan, design and worksheet caches cleared before each front end', async () => {
     clearCaches();
@@ -202,7 +202,7 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
     for (const [name, g] of Object.entries(got)) expectIdentical(name, g, expected);
     // And everything once more, after the cold runs refilled the caches.
     for (const [name, g] of Object.entries(await allInProcess('refilled'))) expectIdentical(`${name} (refilled)`, g, expected);
-  }, 60_000);
+  });
 
   it('hush plan in a separate Node process (nothing warm) writes the same plan', () => {
     const json = path.join(dir, 'process.json');
@@ -211,5 +211,5 @@ describe('determinism: the demo plan is bit-identical across runs and front ends
       stdio: 'pipe',
     });
     expectIdentical('hush plan in another process', fromJson(json), expected);
-  }, 60_000);
+  });
 });
