@@ -113,6 +113,9 @@ const positive: Range = { min: 0, minOpen: true };
 const fractionRange: Range = { min: MIN_FRACTION, max: 1 };
 const indexRange: Range = { min: 1, max: MAX_INDEX };
 
+/** Most values along one side of a sweep (hush sweep): a 500 × 500 table of exact reflections is a few seconds of work. */
+export const MAX_SWEEP_POINTS = 500;
+
 /** Bare tolerances above this are read as they are but noted: 0.5 is 50 %, and half a percent is more often meant. */
 export const TOLERANCE_SLIP = 0.1;
 
@@ -201,6 +204,8 @@ export const INPUTS: readonly InputField[] = [
   field({ name: 'period', kind: 'frequency', unit: 'Hz', range: { min: MIN_RIPPLE_PERIOD, max: MAX_RIPPLE_PERIOD }, show: { factor: 1, unit: 'Hz' }, defaultText: 'required', description: 'observed ripple period in frequency' }),
   field({ name: 'peak_to_peak', kind: 'fraction', range: { min: 0, minOpen: true, max: MAX_RIPPLE_PEAK_TO_PEAK, maxOpen: true }, defaultText: 'required', description: 'observed peak-to-peak relative intensity swing' }),
   field({ name: 'group_index', kind: 'number', range: indexRange, defaultText: '1', description: 'group index of the medium between the reflecting pair', placeholder: 'NG' }),
+  field({ name: 'ppw_points', kind: 'count', range: { min: 1, max: MAX_SWEEP_POINTS }, defaultText: '25', description: 'cells-per-wavelength values of a sweep, evenly spaced in frequency from ppw_max to ppw_min' }),
+  field({ name: 'angle_points', kind: 'count', range: { min: 1, max: MAX_SWEEP_POINTS }, defaultText: '10', description: 'angles of a sweep, evenly spaced from 0 to angle_max' }),
   field({ name: 'cells', kind: 'counts', range: { min: 1, max: MAX_AXIS_CELLS }, defaultText: 'required', description: 'interior cells per axis, 1 to 3 numbers (their count sets the dimensions)' }),
 ];
 
