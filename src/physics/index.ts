@@ -38,10 +38,14 @@ export {
   MAX_CELL_UPDATES,
   createMeasurement1D,
   createMeasurement2D,
+  createMeasurementMode,
   runInChunks,
   measureReflection1D,
   measureReflection2D,
   measureReflection1DSync,
   measureReflection2DSync,
+  measureReflectionMode,
+  measureReflectionModeSync,
 } from './fdtd/measure';
+export { ModeLine } from './fdtd/mode-line';
 export type * from './fdtd';

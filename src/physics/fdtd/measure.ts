@@ -22,12 +22,13 @@
 import { cpmlCoefficients } from '../cpml';
 import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from '../grading';
 import { DEFAULT_COURANT, checkCourant } from '../courant';
-import { checkPpw, discreteAngle, discreteWavenumberUnchecked } from '../dispersion';
-import { reflectionAtWavenumber } from '../reflection';
+import { checkPpw, discreteAngle, discreteWavenumberUnchecked, evanescentFactorUnchecked } from '../dispersion';
+import { reflectionAtTransverseFactor } from '../reflection';
 import { HushInputError } from '../errors';
 import { inRange, wholeInRange } from '../validate';
 import { CpmlLine } from './line';
 import { TmzGrid2D } from './tmz';
+import { ModeLine } from './mode-line';
 import { dtftAt } from './dtft';
 import { fillPulse, planPulse, type PulsePlan } from './pulse';
 
@@ -93,6 +94,28 @@ export interface MeasureOptions2D extends MeasureOptions1D {
   transverseCells?: number;
   /** Mode number M of the source profile cos(2πM·j/Ny); default chosen with Ny. */
   transverseModes?: number;
+  /**
+   * 'grid' (default): the periodic 2-D TMz grid of Ny columns. 'reduced': the
+   * same grid's single mode cos(k_t·j), run exactly as one chain (mode-line.ts),
+   * Ny times cheaper; the two agree to rounding (tests/verification.test.ts).
+   */
+  engine?: 'grid' | 'reduced';
+}
+
+/**
+ * A measurement on the exact reduction of a periodic 2-D grid to one transverse
+ * mode (mode-line.ts), so the transverse wavenumber needs no period: give the
+ * angle of incidence at the band centre (a propagating wave; each frequency
+ * meets the boundary at its own angle) or the decay length there (an
+ * evanescent near field; each frequency has its own decay length), or k_t itself.
+ */
+export interface MeasureOptionsMode extends MeasureOptions1D {
+  /** Angle of incidence at the band centre, 0 ≤ θ < 90 degrees. */
+  angleDeg?: number;
+  /** Decay length (cells) of an evanescent field e^{−d/L} at the band centre. */
+  decayCells?: number;
+  /** Transverse wavenumber k_t in radians per cell, 0 ≤ k_t ≤ π. */
+  transverseWavenumber?: number;
 }
 
 export interface RunControl {
@@ -108,8 +131,10 @@ export interface MeasuredFrequency {
   /** Cells per wavelength in the medium, 2π·S_m/(ωΔt). */
   ppw: number;
   omegaDt: number;
-  /** Direction of the discrete plane wave in the interior, degrees. */
+  /** Direction of the discrete plane wave in the interior, degrees (90 for an evanescent field). */
   angleDeg: number;
+  /** Decay length L in cells of an evanescent field at this frequency; 0 for a propagating wave. */
+  decayCells: number;
   /** |r| from the time-domain runs. */
   measuredAmplitude: number;
   /** arg r from the time-domain runs, degrees, at the interface. */
@@ -125,6 +150,10 @@ export interface MeasuredFrequency {
 
 export interface ReflectionMeasurement {
   dimensions: 1 | 2;
+  /** 'line' (1-D), 'grid' (the periodic 2-D grid) or 'reduced' (its single mode, run as one chain). */
+  engine: 'line' | 'grid' | 'reduced';
+  /** True when the measured field is evanescent along the normal at every frequency (a near field). */
+  evanescent: boolean;
   courant: number;
   courantMedium: number;
   index: number;
@@ -266,6 +295,22 @@ interface Analysis {
   angleDeg: number;
   transverseCells: number;
   transverseModes: number;
+  engine: 'line' | 'grid' | 'reduced';
+  evanescent: boolean;
+}
+
+/**
+ * Normal wavenumber of the mode (ωΔt, k_t) on the lossless grid: sin²(k̃_x/2) =
+ * sin²(ωΔt/2)/S_m² − sin²(k_t/2) (physics.md §3). Propagating: kx real, angle;
+ * evanescent (negative right side): k̃_x = −j·q with sinh²(q/2) = −(…), decay L = 1/q.
+ */
+function normalWave(omegaDt: number, kt: number, sm: number): { kx: number; angleDeg: number; q: number } {
+  const st = Math.sin(omegaDt / 2) / sm;
+  const sk = Math.sin(kt / 2);
+  const x = st * st - sk * sk;
+  if (x < 0) return { kx: 0, angleDeg: 90, q: 2 * Math.asinh(Math.sqrt(-x)) };
+  const { kx, angleDeg } = discreteAngle(omegaDt, kt, sm);
+  return { kx, angleDeg, q: 0 };
 }
 
 function analyse(
@@ -310,17 +355,28 @@ function analyse(
     const dd = iRe * iRe + iIm * iIm;
     const qRe = (eRe * iRe + eIm * iIm) / dd;
     const qIm = (eIm * iRe - eRe * iIm) / dd;
-    const { kx, angleDeg } = discreteAngle(w, a.kt, sm);
-    // Undo the round trip monitor → interface → monitor: multiply by e^{+2j·k̃_x·D}.
-    const ph = 2 * kx * c.monitorDistance;
-    const rRe = qRe * Math.cos(ph) - qIm * Math.sin(ph);
-    const rIm = qRe * Math.sin(ph) + qIm * Math.cos(ph);
-    const model = reflectionAtWavenumber(c.design, w, a.kt, sm);
+    const { kx, angleDeg, q } = normalWave(w, a.kt, sm);
+    let rRe: number;
+    let rIm: number;
+    if (q > 0) {
+      // Evanescent: undo the decay monitor → interface → monitor, e^{+2D/L} (physics.md §6).
+      const gain = Math.exp(2 * q * c.monitorDistance);
+      rRe = qRe * gain;
+      rIm = qIm * gain;
+    } else {
+      // Undo the round trip monitor → interface → monitor: multiply by e^{+2j·k̃_x·D}.
+      const ph = 2 * kx * c.monitorDistance;
+      rRe = qRe * Math.cos(ph) - qIm * Math.sin(ph);
+      rIm = qRe * Math.sin(ph) + qIm * Math.cos(ph);
+    }
+    const sk = Math.sin(a.kt / 2);
+    const model = reflectionAtTransverseFactor(c.design, w, sk * sk, sm);
     const measured = Math.hypot(rRe, rIm);
     rows.push({
       ppw: (2 * Math.PI * sm) / w,
       omegaDt: w,
       angleDeg,
+      decayCells: q > 0 ? 1 / q : 0,
       measuredAmplitude: measured,
       measuredPhaseDeg: Math.atan2(rIm, rRe) / DEG,
       predictedAmplitude: model.amplitude,
@@ -336,6 +392,8 @@ function analyse(
   }
   return {
     dimensions: dims,
+    engine: a.engine,
+    evanescent: a.evanescent,
     courant: c.courant,
     courantMedium: sm,
     index: c.index,
@@ -394,7 +452,7 @@ export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions
     },
     result() {
       if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
-      return analyse(c, { kt: 0, angleDeg: 0, transverseCells: 1, transverseModes: 0 }, 1, t, recAbs, recRef, abs.nodes, ref.nodes);
+      return analyse(c, { kt: 0, angleDeg: 0, transverseCells: 1, transverseModes: 0, engine: 'line', evanescent: false }, 1, t, recAbs, recRef, abs.nodes, ref.nodes);
     },
   };
 }
@@ -447,7 +505,14 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
       throw new HushInputError('band', `the wave of ${((2 * Math.PI * c.courantMedium) / w).toPrecision(4)} cells per wavelength is evanescent along x at this angle`);
     }
   }
+  const engine = opts.engine ?? 'grid';
+  if (engine !== 'grid' && engine !== 'reduced') {
+    throw new HushInputError('engine', `engine must be "grid" or "reduced" (got ${JSON.stringify(engine)})`, 'value');
+  }
   const t = planTiming(c, kt);
+  if (engine === 'reduced') {
+    return modeRun(c, t, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes, engine: 'reduced', evanescent: false }, LEFT_GAP);
+  }
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
   const right = cpmlCoefficients(c.design, c.courantMedium);
   const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
@@ -481,9 +546,124 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
     },
     result() {
       if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
-      return analyse(c, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes }, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
+      return analyse(c, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes, engine: 'grid', evanescent: false }, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
     },
   };
+}
+
+/**
+ * The pair of runs (absorber, long lossless reference) on the exact one-mode
+ * chain (mode-line.ts) with transverse factor K = 2·sin(k_t/2); `leftGap` cells
+ * between the far-left termination and the source.
+ */
+function modeRun(c: CommonPlan, t: Timing, a: Analysis, leftGap: number): MeasurementRun {
+  const K = 2 * Math.sin(a.kt / 2);
+  const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
+  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const near = leftGap + SOURCE_TO_MONITOR + c.monitorDistance;
+  checkWork(t.steps, 2 * (left.layers + 1) + near + c.design.layers + leftGap + t.referenceRight);
+  const abs = new ModeLine({ cells: near, courantMedium: c.courantMedium, transverse: K, left, right });
+  const ref = new ModeLine({ cells: leftGap + t.referenceRight, courantMedium: c.courantMedium, transverse: K, left });
+  const source = abs.leftInterface + leftGap;
+  const probe = source + SOURCE_TO_MONITOR;
+  const recAbs = new Float64Array(t.steps);
+  const recRef = new Float64Array(t.steps);
+  let done = 0;
+  return {
+    totalSteps: t.steps,
+    get stepsDone() {
+      return done;
+    },
+    cellUpdatesPerStep: abs.nodes + ref.nodes,
+    advance(steps: number) {
+      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
+      abs.advance(k, done, t.waveform, source, recAbs, probe);
+      ref.advance(k, done, t.waveform, source, recRef, probe);
+      done += k;
+    },
+    result() {
+      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
+      return analyse(c, a, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
+    },
+  };
+}
+
+/** Default monitor-to-interface distance for a near field, cells: its echo decays as e^{−2D/L} on the way back. */
+const NEAR_FIELD_MONITOR_DISTANCE = 2;
+/** Cells between the far-left termination and the source for a near field, per cell of the longest decay length (e^{−2·40} of the field returns). */
+const NEAR_FIELD_LEFT_GAP_PER_DECAY = 40;
+
+/**
+ * Pulse and record for a near field: the band lies below the mode's grazing
+ * cut-off (where the field turns propagating), which the pulse keeps clear of as
+ * it keeps clear of zero frequency. Nothing propagates at the band's
+ * frequencies, so the record is the pulse, the transient that crosses the
+ * geometry at no more than the medium speed (S_m cells per step, slowed by up
+ * to κ_max in the absorber) a few times over, and a margin; the echo's tail
+ * level (echoTailLevel) shows whether it sufficed.
+ */
+function planTimingNearField(c: CommonPlan, kt: number): Timing {
+  const wl = Math.min(...c.omegas, (2 * Math.PI * c.courantMedium) / c.ppwHigh);
+  const wh = Math.max(...c.omegas, (2 * Math.PI * c.courantMedium) / c.ppwLow);
+  const grazing = cutoffs(kt, c.courantMedium).low;
+  const pulse = planPulse(wl, wh, 0, grazing);
+  const path = SOURCE_TO_MONITOR + 2 * c.monitorDistance + 2 * c.design.layers * c.design.kappaMax;
+  const steps = pulse.length + Math.ceil((4 * path) / c.courantMedium) + Math.ceil(4 * pulse.width) + 256;
+  const referenceRight = Math.ceil(0.55 * steps * c.courantMedium) + SOURCE_TO_MONITOR + c.monitorDistance + 20;
+  return { pulse, waveform: fillPulse(pulse, new Float64Array(pulse.length)), steps, referenceRight };
+}
+
+/**
+ * A measurement on the exact one-mode reduction of a periodic 2-D grid
+ * (mode-line.ts), ready to advance step by step: oblique incidence at
+ * `angleDeg` (at the band centre), or an evanescent near field of decay
+ * `decayCells` (at the band centre), or an explicit k_t. Every frequency of the
+ * band must be on the same side of the mode's grazing cut-off.
+ */
+export function createMeasurementMode(design: AbsorberDesign, opts: MeasureOptionsMode): MeasurementRun {
+  if (opts === null || typeof opts !== 'object') {
+    throw new HushInputError('options', 'options must be an object with ppwLow, ppwHigh and one of angleDeg, decayCells or transverseWavenumber', 'value');
+  }
+  const given = [opts.angleDeg, opts.decayCells, opts.transverseWavenumber].filter((v) => v !== undefined).length;
+  if (given !== 1) {
+    throw new HushInputError('angle', `give exactly one of angleDeg, decayCells and transverseWavenumber (got ${given})`, 'value');
+  }
+  const angleIn = opts.angleDeg !== undefined ? inRange('angle', opts.angleDeg, 0, 90, { hiOpen: true, unit: 'degrees' }) : 0;
+  const c = checkCommon(design, opts, 2, angleIn);
+  const w0 = 0.5 * ((2 * Math.PI * c.courantMedium) / c.ppwLow + (2 * Math.PI * c.courantMedium) / c.ppwHigh);
+  let kt: number;
+  if (opts.angleDeg !== undefined) {
+    const ppw0 = (2 * Math.PI * c.courantMedium) / w0;
+    kt = discreteWavenumberUnchecked(ppw0, c.courantMedium, angleIn) * Math.sin(angleIn * DEG);
+  } else if (opts.decayCells !== undefined) {
+    const L = inRange('decay length', opts.decayCells, 0, 1e6, { loOpen: true, unit: 'cells' });
+    const f = evanescentFactorUnchecked(w0, c.courantMedium, L);
+    if (f > 1) {
+      throw new HushInputError('decay length', `a near field decaying over ${L} cells at the band centre needs a transverse wavenumber beyond a 2-D grid's (sin²(k_t/2) = ${f.toPrecision(4)} > 1)`);
+    }
+    kt = 2 * Math.asin(Math.sqrt(f));
+  } else kt = inRange('transverse wavenumber', opts.transverseWavenumber, 0, Math.PI, { unit: 'radians per cell' });
+  const sides = c.omegas.map((w) => {
+    const st = Math.sin(w / 2) / c.courantMedium;
+    const sk = Math.sin(kt / 2);
+    return st * st - sk * sk;
+  });
+  const evanescent = sides[0] < 0;
+  for (let k = 0; k < sides.length; k++) {
+    if (sides[k] === 0 || sides[k] < 0 !== evanescent) {
+      throw new HushInputError('band', 'the band straddles the grazing cut-off of this transverse wavenumber: some frequencies propagate and others are evanescent; narrow the band');
+    }
+  }
+  const angleDeg = evanescent ? 90 : opts.angleDeg !== undefined ? angleIn : discreteAngle(w0, kt, c.courantMedium).angleDeg;
+  if (evanescent) {
+    if (opts.monitorDistance === undefined) c.monitorDistance = NEAR_FIELD_MONITOR_DISTANCE;
+    const t = planTimingNearField(c, kt);
+    const longest = Math.max(...c.omegas.map((w) => 1 / normalWave(w, kt, c.courantMedium).q));
+    const gap = Math.max(LEFT_GAP, Math.ceil(NEAR_FIELD_LEFT_GAP_PER_DECAY * longest));
+    return modeRun(c, t, { kt, angleDeg, transverseCells: 0, transverseModes: 0, engine: 'reduced', evanescent: true }, gap);
+  }
+  const t = planTiming(c, kt);
+  return modeRun(c, t, { kt, angleDeg, transverseCells: 0, transverseModes: 0, engine: 'reduced', evanescent: false }, LEFT_GAP);
 }
 
 /** Runs a prepared measurement to the end synchronously. */
@@ -527,6 +707,16 @@ export async function measureReflection1D(design: AbsorberDesign, opts: MeasureO
 /** Measures the reflection of `design` at oblique incidence on a periodic 2-D TMz grid. */
 export async function measureReflection2D(design: AbsorberDesign, opts: MeasureOptions2D, control: RunControl = {}): Promise<ReflectionMeasurement> {
   return runInChunks(createMeasurement2D(design, opts), control);
+}
+
+/** Measures the reflection of `design` on the exact one-mode reduction of a periodic 2-D grid (oblique or near field). */
+export async function measureReflectionMode(design: AbsorberDesign, opts: MeasureOptionsMode, control: RunControl = {}): Promise<ReflectionMeasurement> {
+  return runInChunks(createMeasurementMode(design, opts), control);
+}
+
+/** Synchronous one-mode measurement (blocks; prefer the async form in a UI). */
+export function measureReflectionModeSync(design: AbsorberDesign, opts: MeasureOptionsMode): ReflectionMeasurement {
+  return runToEnd(createMeasurementMode(design, opts));
 }
 
 /** Synchronous 1-D measurement (blocks; prefer the async form in a UI). */
