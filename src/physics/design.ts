@@ -108,6 +108,14 @@ export interface DesignSpec {
   decayMinCells?: number;
   /** Structure-to-absorber gap in cells, for the near-field check (it has no other use); default 0. */
   gapCells?: number;
+  /**
+   * Choose κ_max and α_max_norm (those not fixed) from the candidates even
+   * without a near-field check; default false, so a spec without near-field
+   * inputs keeps κ_max = 1, α = 0 (the designs of model 1.0). Measured: on 1 of 6
+   * sample specs (|r| ≤ 5e-4 at 12 cells per wavelength, 20°) the choice saves one
+   * layer (5 instead of 6); it costs up to 15× the search work.
+   */
+  chooseKappaAlpha?: boolean;
 }
 
 export interface MediumWorst {
@@ -206,6 +214,12 @@ const DENSE_FACTOR = 4;
 const SEARCH_AZIMUTHS = 2;
 const DENSE_AZIMUTHS = 3;
 const STRENGTH_MIN = 0.05;
+/** With several check groups, a dense miss larger than this factor is not re-optimised (the next layer count is tried instead). */
+const REOPT_MISS = 1.5;
+/** Strengths σ_max/σ_opt of the coarse scan that ranks the κ/α candidates. */
+const RANK_STRENGTHS = [0.35, 0.6, 1, 1.7, 3];
+/** Points per pass of the local strength re-optimisation. */
+const LOCAL_SCAN = 8;
 const SCAN_POINTS = 20;
 const GOLDEN_ITERATIONS = 14;
 
@@ -254,8 +268,11 @@ export function resolveSpec(spec: DesignSpec): ResolvedSpec {
   const decayGiven = spec.decayMinCells !== undefined;
   const decayMinCells = decayGiven ? inRange('shortest decay length', spec.decayMinCells, 0, MAX_DECAY_CELLS, { loOpen: true, unit: 'cells' }) : 0;
   const gapCells = inRange('gap', spec.gapCells ?? 0, 0, 1e6, { unit: 'cells' });
-  const kappaMax = spec.kappaMax !== undefined ? inRange('kappa max', spec.kappaMax, 1, 100) : decayGiven ? null : 1;
-  const alphaMaxNorm = spec.alphaMaxNorm !== undefined ? inRange('alpha max (normalised)', spec.alphaMaxNorm, 0, 10) : decayGiven ? null : 0;
+  const choose = spec.chooseKappaAlpha === undefined ? false : spec.chooseKappaAlpha;
+  if (typeof choose !== 'boolean') throw new HushInputError('choose kappa and alpha', `choose kappa and alpha must be true or false (got ${JSON.stringify(choose)})`, 'value');
+  const free = decayGiven || choose;
+  const kappaMax = spec.kappaMax !== undefined ? inRange('kappa max', spec.kappaMax, 1, 100) : free ? null : 1;
+  const alphaMaxNorm = spec.alphaMaxNorm !== undefined ? inRange('alpha max (normalised)', spec.alphaMaxNorm, 0, 10) : free ? null : 0;
   const alphaOrder = inRange('alpha order', spec.alphaOrder ?? 1, 0, 10);
   const maxLayers = wholeInRange('layer cap', spec.maxLayers ?? MAX_LAYERS, 1, MAX_LAYERS);
   const minLayers = wholeInRange('layer floor', spec.minLayers ?? 1, 1, MAX_LAYERS);
@@ -350,8 +367,9 @@ export interface DesignChecks {
 
 /**
  * The checks of a spec on a grid of nf frequencies, na angles and nz azimuths.
- * `primary`: only the first medium and convention, in-plane (azimuth 0), no near
- * field — a subset of the checks, so a design that fails it fails them all.
+ * `primary`: every medium but only the first convention, in-plane (azimuth 0),
+ * with the near field of that convention — a subset of the checks, so a design
+ * that fails it fails them all.
  */
 export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: number, primary = false): DesignChecks {
   const ppw = bandSamples(rs.ppwMin, rs.ppwMax, nf);
@@ -359,7 +377,7 @@ export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: numbe
   const azimuthDeg = rangeSamples(primary ? 0 : rs.azimuthMaxDeg, nz);
   const f = ppw.length;
   const groups: CheckGroup[] = [];
-  for (const nj of primary ? rs.absorberIndices.slice(0, 1) : rs.absorberIndices) {
+  for (const nj of rs.absorberIndices) {
     const scale = nj / rs.index;
     const sm = rs.courant / nj;
     const ppwMedium = new Float64Array(f);
@@ -378,7 +396,7 @@ export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: numbe
       groups.push({ evanescent: false, index: nj, scale, courantMedium: sm, sampling, ppw, ppwMedium, omegaDt, angleDeg, azimuthDeg, factor, weight: null, decay: null });
     }
   }
-  if (rs.decayMinCells > 0 && !primary) {
+  if (rs.decayMinCells > 0) {
     const sm = rs.courantMedium;
     const omegaDt = new Float64Array(f);
     const factor = new Float64Array(f);
@@ -391,7 +409,7 @@ export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: numbe
       weight[i] = Math.exp((-2 * rs.gapCells) / decay[i]);
     }
     const zero = new Float64Array(1);
-    for (const sampling of rs.samplings) {
+    for (const sampling of primary ? rs.samplings.slice(0, 1) : rs.samplings) {
       groups.push({ evanescent: true, index: rs.index, scale: 1, courantMedium: sm, sampling, ppw, ppwMedium: ppw, omegaDt, angleDeg: zero, azimuthDeg: zero, factor, weight, decay });
     }
   }
@@ -681,6 +699,8 @@ function refinedWorst(d: ResolvedDesign, dense: DesignChecks, rs: ResolvedSpec, 
 interface Optimum {
   strength: number;
   worst: number;
+  /** Group of the checks where the worst at that strength lies. */
+  group: number;
 }
 
 /**
@@ -693,10 +713,13 @@ interface Optimum {
 function bestStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWorkspace, stopBelow: number): Optimum {
   const w: Worst = newWorst();
   let start: Worst | null = null;
+  let bestGroup = 0;
+  let lastGroup = 0;
   const evalAt = (logS: number, bound: number): number => {
     d.strength = Math.exp(logS);
     worstReflection(d, checks, ws, bound, start, w);
     start = w;
+    lastGroup = w.group;
     return w.amplitude;
   };
   const lo = Math.log(STRENGTH_MIN);
@@ -712,10 +735,11 @@ function bestStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWor
     if (v < bestV) {
       bestV = v;
       bestI = i;
+      bestGroup = lastGroup;
     }
   }
   let bestLog = lo + bestI * step;
-  if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV };
+  if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
   // Second start: the lowest other local minimum of the scan, away from the best one.
   let otherI = -1;
   for (let i = 0; i < SCAN_POINTS; i++) {
@@ -731,30 +755,73 @@ function bestStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWor
     let c = b - g * (b - a);
     let e = a + g * (b - a);
     let fc = evalAt(c, Infinity);
+    let gc = lastGroup;
     let fe = evalAt(e, Infinity);
+    let ge = lastGroup;
     for (let it = 0; it < GOLDEN_ITERATIONS; it++) {
       if (fc < fe) {
         b = e;
         e = c;
         fe = fc;
+        ge = gc;
         c = b - g * (b - a);
         fc = evalAt(c, Infinity);
+        gc = lastGroup;
       } else {
         a = c;
         c = e;
         fc = fe;
+        gc = ge;
         e = a + g * (b - a);
         fe = evalAt(e, Infinity);
+        ge = lastGroup;
       }
       const m = Math.min(fc, fe);
       if (m < bestV) {
         bestV = m;
         bestLog = fc < fe ? c : e;
+        bestGroup = fc < fe ? gc : ge;
       }
-      if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV };
+      if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
     }
   }
-  return { strength: Math.exp(bestLog), worst: bestV };
+  return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
+}
+
+/**
+ * Minimises the worst |r| over log-strength within one scan step of `around`:
+ * two nested scans (LOCAL_SCAN points over ±1 step, then over ± one of those
+ * spacings around the best), each evaluation stopping as soon as it exceeds the
+ * best so far (a value above the best only needs to be known to be above it).
+ */
+function localStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWorkspace, around: number): number {
+  const w: Worst = newWorst();
+  let start: Worst | null = null;
+  const evalAt = (logS: number, bound: number): number => {
+    d.strength = Math.exp(logS);
+    worstReflection(d, checks, ws, bound, start, w);
+    start = w;
+    return w.amplitude;
+  };
+  const lo = Math.log(STRENGTH_MIN);
+  const hi = Math.log(MAX_STRENGTH);
+  let bestLog = Math.log(around);
+  let bestV = evalAt(bestLog, Infinity);
+  let half = (hi - lo) / (SCAN_POINTS - 1);
+  for (let pass = 0; pass < 2; pass++) {
+    const centre = bestLog;
+    for (let k = 0; k < LOCAL_SCAN; k++) {
+      const x = centre - half + (2 * half * (k + 0.5)) / LOCAL_SCAN;
+      if (x < lo || x > hi) continue;
+      const v = evalAt(x, bestV);
+      if (v < bestV) {
+        bestV = v;
+        bestLog = x;
+      }
+    }
+    half = (2 * half) / LOCAL_SCAN;
+  }
+  return Math.exp(bestLog);
 }
 
 /**
@@ -779,7 +846,7 @@ function searchChecks(rs: ResolvedSpec): DesignChecks {
 
 /** The screen of the search grid (its primary subset), or null when it is the search grid itself. */
 function screenChecks(rs: ResolvedSpec): DesignChecks | null {
-  const whole = rs.absorberIndices.length === 1 && rs.samplings.length === 1 && rs.decayMinCells === 0 && rs.azimuthMaxDeg === 0;
+  const whole = rs.absorberIndices.length === 1 && rs.samplings.length === 1 && rs.azimuthMaxDeg === 0;
   return whole ? null : designChecks(rs, SEARCH_FREQUENCIES, SEARCH_ANGLES, 1, true);
 }
 
@@ -804,10 +871,14 @@ interface Pass {
 interface OrderSearch {
   /** Best strength on the search grid at N, stopping at the first strength under the target (N below the floor: infeasible). */
   feasible(N: number): Optimum;
+  /** The checks where the last infeasible `feasible(N)` failed: one group of the screen or of the search grid. */
+  failedGroup(N: number): CheckGroup | null;
+  /** Best strength on the search grid at N, stopping at the first worst under `bound`. */
+  below(N: number, bound: number): Optimum;
   /** The design at N if it passes the dense check, else null. */
   densePass(N: number): Pass | null;
-  /** The thinnest design up to `cap` layers (N − 1 failing), or null. */
-  thinnest(cap: number): Pass | null;
+  /** The thinnest design up to `cap` layers (N − 1 failing), or null; the search starts at `start` (default: the continuous-theory estimate). */
+  thinnest(cap: number, start?: number): Pass | null;
 }
 
 function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMaxNorm: number, checks: SearchChecks, ws: ReflectionWorkspace): OrderSearch {
@@ -815,15 +886,22 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
   const target = rs.target;
   const base = (N: number) => baseDesign(N, order, kappaMax, alphaMaxNorm, rs.alphaOrder);
   const memo = new Map<number, Optimum>();
-  const infeasible: Optimum = { strength: 1, worst: Infinity };
+  const failedIn = new Map<number, CheckGroup>();
+  const infeasible: Optimum = { strength: 1, worst: Infinity, group: 0 };
   const feasible = (N: number): Optimum => {
     if (N < rs.minLayers) return infeasible;
     let o = memo.get(N);
     if (!o) {
       // The screen first: failing its subset of the samples proves failure at a fraction of the work
       // (most of a search's work is spent on layer counts that fail).
-      if (screen) o = bestStrength(base(N), screen, ws, target);
-      if (!o || o.worst <= target) o = bestStrength(base(N), grid, ws, target);
+      if (screen) {
+        o = bestStrength(base(N), screen, ws, target);
+        if (o.worst > target) failedIn.set(N, screen.groups[o.group]);
+      }
+      if (!o || o.worst <= target) {
+        o = bestStrength(base(N), grid, ws, target);
+        if (o.worst > target) failedIn.set(N, grid.groups[o.group]);
+      }
       memo.set(N, o);
     }
     return o;
@@ -836,20 +914,31 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     if (denseMemo.has(N)) return denseMemo.get(N) ?? null;
     let pass: Pass | null = null;
     // The dense grid first (cheap, stops at the first sample over the target), then between its samples.
-    const meets = (d: ResolvedDesign): Refined | null => {
-      worstReflection(d, dense, ws, target, null, w);
+    let failedGroup = 0;
+    const meets = (d: ResolvedDesign, bound = target): Refined | null => {
+      worstReflection(d, dense, ws, bound, null, w);
+      failedGroup = w.group;
       if (w.amplitude > target) return null;
       const peak = refinedWorst(d, dense, rs, ws, target);
-      return peak.overall.amplitude <= target ? peak : null;
+      if (peak.overall.amplitude <= target) return peak;
+      failedGroup = peak.perGroup.indexOf(peak.overall);
+      return null;
     };
     // Feasibility stopped at the first strength under the target; the answer uses the best one.
     const opt = bestStrength(base(N), grid, ws, 0);
     if (opt.worst <= target) {
       const d = base(N);
       d.strength = opt.strength;
-      let peak = meets(d);
-      if (!peak) {
+      // With several groups (media, conventions, azimuths, near field) the dense grid is large: the
+      // strength is then re-optimised locally (one scan step either side of the search optimum) on the
+      // search grid plus the dense group that failed, and only for a miss below REOPT_MISS × target;
+      // the dense check that follows is on every group, so this bounds the work, not the guarantee.
+      let peak = meets(d, screen ? REOPT_MISS * target : target);
+      if (!peak && !screen) {
         d.strength = bestStrength(base(N), dense, ws, 0).strength;
+        peak = meets(d);
+      } else if (!peak && w.amplitude <= REOPT_MISS * target) {
+        d.strength = localStrength(base(N), { groups: [...grid.groups, dense.groups[failedGroup]] }, ws, opt.strength);
         peak = meets(d);
       }
       if (peak) pass = { layers: N, design: d, refined: peak };
@@ -857,11 +946,12 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     denseMemo.set(N, pass);
     return pass;
   };
-  const thinnest = (cap: number): Pass | null => {
+  const thinnest = (cap: number, start?: number): Pass | null => {
     if (cap < rs.minLayers) return null;
     const cosT = Math.cos((rs.angleMaxDeg * Math.PI) / 180);
     // Continuous-theory estimate at σ_opt: R = e^{−1.6·N·cos θ} (physics.md §2).
-    const guess = Math.max(rs.minLayers, Math.min(cap, Math.ceil(Math.log(1 / target) / (1.6 * cosT))));
+    const estimate = start ?? Math.ceil(Math.log(1 / target) / (1.6 * cosT));
+    const guess = Math.max(rs.minLayers, Math.min(cap, estimate));
     let lo: number; // infeasible (rs.minLayers − 1 = none known)
     let hi: number; // feasible
     const floor = rs.minLayers - 1;
@@ -917,7 +1007,8 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     }
     return densePass(passed);
   };
-  return { feasible, densePass, thinnest };
+  const below = (N: number, bound: number): Optimum => (N < rs.minLayers ? infeasible : bestStrength(base(N), grid, ws, bound));
+  return { feasible, failedGroup: (N) => failedIn.get(N) ?? null, below, densePass, thinnest };
 }
 
 /** The reported figures of a design that passed. */
@@ -1059,29 +1150,82 @@ function designForOrder(rs: ResolvedSpec, order: number, checks: SearchChecks, w
     return resultOf(rs, dense, pass, { kappaChosen, alphaChosen, alphaReason: reason });
   }
   const band = grid.groups[0].ppw;
-  const cands: { kappa: number; alpha: number; est: number }[] = [];
-  for (const kappa of kappas) for (const alpha of alphas) cands.push({ kappa, alpha, est: candidateEstimate(rs, order, kappa, alpha, band) });
-  cands.sort((a, b) => a.est - b.est || a.kappa - b.kappa || a.alpha - b.alpha);
+  // Order of the candidates: by the lowest worst |r| each reaches on the screen (or the search grid) at
+  // one probe layer count, the median of their continuous-theory estimates, over a coarse scan of
+  // strengths (each evaluation stops once above the best of all candidates so far): the grid itself
+  // ranks them, as continuous theory misses κ's own grading reflection on coarse grids.
+  const estimates: number[] = [];
+  for (const kappa of kappas) for (const alpha of alphas) estimates.push(candidateEstimate(rs, order, kappa, alpha, band));
+  const sorted = [...estimates].sort((a, b) => a - b);
+  const probe = Math.max(rs.minLayers, Math.min(rs.maxLayers, Math.ceil(sorted[Math.floor(sorted.length / 2)])));
+  const screen = checks.screen ?? grid;
+  const w: Worst = newWorst();
+  /** The candidates in order of the lowest worst each reaches at `layers` over RANK_STRENGTHS on the screen. */
+  const ranked = (list: { kappa: number; alpha: number }[], layers: number) => {
+    let bound = Infinity;
+    const out = list.map(({ kappa, alpha }) => {
+      const d = baseDesign(layers, order, kappa, alpha, rs.alphaOrder);
+      let est = Infinity;
+      for (const strength of RANK_STRENGTHS) {
+        d.strength = strength;
+        worstReflection(d, screen, ws, bound, null, w);
+        est = Math.min(est, w.amplitude);
+        bound = Math.min(bound, w.amplitude);
+      }
+      return { kappa, alpha, est };
+    });
+    return out.sort((a, b) => a.est - b.est || a.kappa - b.kappa || a.alpha - b.alpha);
+  };
+  const pairs: { kappa: number; alpha: number }[] = [];
+  for (const kappa of kappas) for (const alpha of alphas) pairs.push({ kappa, alpha });
+  let cands = ranked(pairs, probe);
   let best: Pass | null = null;
   let bestCand = cands[0];
-  for (const c of cands) {
-    const search = orderSearch(rs, order, c.kappa, c.alpha, checks, ws);
+  const searches = new Map<string, OrderSearch>();
+  const searchOf = (kappa: number, alpha: number): OrderSearch => {
+    const key = `${kappa}|${alpha}`;
+    let o = searches.get(key);
+    if (!o) {
+      o = orderSearch(rs, order, kappa, alpha, checks, ws);
+      searches.set(key, o);
+    }
+    return o;
+  };
+  let reranked = false;
+  for (let ci = 0; ci < cands.length; ci++) {
+    const c = cands[ci];
+    const search = searchOf(c.kappa, c.alpha);
     if (!best) {
-      best = search.thinnest(rs.maxLayers);
+      // While no candidate has a design, each is first screened at the layer cap (after the first, on the
+      // one group where the best-ranked one failed there: failing a subset proves failing the whole),
+      // so a candidate with no design up to the cap costs one layer count, not a search.
+      const g = ci === 0 ? null : searchOf(cands[0].kappa, cands[0].alpha).failedGroup(rs.maxLayers);
+      if (g && bestStrength(baseDesign(rs.maxLayers, order, c.kappa, c.alpha, rs.alphaOrder), { groups: [g] }, ws, rs.target).worst > rs.target) continue;
+      if (search.feasible(rs.maxLayers).worst > rs.target) continue;
+      best = search.thinnest(rs.maxLayers, ci === 0 ? undefined : rs.maxLayers);
       bestCand = c;
+      if (best && !reranked && best.layers - 1 >= rs.minLayers) {
+        // The rest again, ranked one layer below the first design: the likeliest to beat it come first.
+        cands = [...cands.slice(0, ci + 1), ...ranked(cands.slice(ci + 1), best.layers - 1)];
+        reranked = true;
+      }
       continue;
     }
     const N = best.layers;
     if (N - 1 >= rs.minLayers && search.feasible(N - 1).worst <= rs.target) {
-      const fewer = search.thinnest(N - 1);
+      const fewer = search.thinnest(N - 1, N - 1);
       if (fewer) {
         best = fewer;
         bestCand = c;
         continue;
       }
     }
-    const o = search.feasible(N);
-    if (o.worst < best.refined.overall.amplitude) {
+    // A tie at N can only win with a lower worst: look for a strength under the incumbent's worst
+    // (the search grid is a subset of the dense one, so a candidate with none cannot win).
+    const bound = best.refined.overall.amplitude;
+    const first = search.feasible(N);
+    const o = first.worst < bound ? first : first.worst > rs.target ? first : search.below(N, bound);
+    if (o.worst < bound) {
       const tie = search.densePass(N);
       if (tie && tie.refined.overall.amplitude < best.refined.overall.amplitude) {
         best = tie;
@@ -1090,20 +1234,34 @@ function designForOrder(rs: ResolvedSpec, order: number, checks: SearchChecks, w
     }
   }
   if (!best) return null;
-  // Why α is what it is, from one more look at the search grid: the same design without the shift.
+  const N = best.layers;
   let reason: string;
   const shift = `${(bestCand.alpha / omegaMin).toPrecision(2)} × the band's lowest ω_norm ${omegaMin.toPrecision(3)}`;
   if (!alphaChosen) reason = bestCand.alpha > 0 ? 'α_max is fixed by the input' : 'α_max is fixed by the input at 0 (no frequency shift)';
   else if (bestCand.alpha === 0) {
-    reason = `α = 0: no frequency shift up to ${ALPHA_FRACTIONS[ALPHA_FRACTIONS.length - 1]} × the band's lowest ω_norm (${omegaMin.toPrecision(3)}) gave a thinner design or a lower worst reflection, the near field at the band's long end (decay ${((rs.decayMinCells * rs.ppwMax) / rs.ppwMin).toPrecision(3)} cells) included`;
+    const nearField = rs.decayMinCells > 0 ? `, the near field at the band's long end (decay ${((rs.decayMinCells * rs.ppwMax) / rs.ppwMin).toPrecision(3)} cells) included` : ' (no near-field check was asked for)';
+    reason = `α = 0: no frequency shift up to ${ALPHA_FRACTIONS[ALPHA_FRACTIONS.length - 1]} × the band's lowest ω_norm (${omegaMin.toPrecision(3)}) gave a thinner design or a lower worst reflection${nearField}`;
   } else {
-    const without = baseDesign(best.layers, order, bestCand.kappa, 0, rs.alphaOrder);
-    const o = bestStrength(without, grid, ws, 0);
-    if (o.worst > rs.target) {
-      const w = worstReflection(without, grid, ws, Infinity, null);
-      reason = `α_max = ${bestCand.alpha.toPrecision(3)} (${shift}, below the band): without it ${best.layers} layers miss the target (worst ${w.amplitude.toPrecision(3)} from ${describeSample(rs, grid, w)}), as an α-free CPML barely absorbs the slow and evanescent fields at the band's long end`;
+    // Why the shift: the α-free candidates at the same layer count, on the search grid (memoised where the search already looked).
+    let closest: { kappa: number; o: Optimum } | null = null;
+    for (const kappa of kappas) {
+      const o = searchOf(kappa, 0).feasible(N);
+      if (!closest || o.worst < closest.o.worst) closest = { kappa, o };
+    }
+    const c = closest as { kappa: number; o: Optimum };
+    if (c.o.worst > rs.target) {
+      const d = baseDesign(N, order, c.kappa, 0, rs.alphaOrder);
+      d.strength = c.o.strength;
+      const w = worstReflection(d, grid, ws, Infinity, null);
+      const where = describeSample(rs, grid, w);
+      const why = grid.groups[w.group].evanescent
+        ? "an α-free CPML adds no decay to an evanescent field beyond κ's, and the longest decay sits at the band's long end"
+        : rs.decayMinCells > 0
+          ? 'the α-free gradings that would absorb the near field reflect the propagating waves more'
+          : 'at this thickness the shift lets a stronger grading reflect less';
+      reason = `α_max = ${bestCand.alpha.toPrecision(3)} (${shift}, below the band): without a frequency shift no κ_max of ${kappas.join(', ')} meets the target with ${N} layers (the closest, κ_max = ${c.kappa}, reaches ${w.amplitude.toPrecision(3)} from ${where}): ${why}`;
     } else {
-      reason = `α_max = ${bestCand.alpha.toPrecision(3)} (${shift}, below the band): ${best.layers} layers meet the target with or without it, and the shift lowers the worst reflection to ${best.refined.overall.amplitude.toPrecision(3)}`;
+      reason = `α_max = ${bestCand.alpha.toPrecision(3)} (${shift}, below the band): ${N} layers meet the target without a shift too (κ_max = ${c.kappa}), and the shift lowers the worst reflection to ${best.refined.overall.amplitude.toPrecision(3)}`;
     }
   }
   return resultOf(rs, dense, best, { kappaChosen, alphaChosen, alphaReason: reason });
