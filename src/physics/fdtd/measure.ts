@@ -19,7 +19,7 @@
  * when `signal.aborted` is set. The synchronous `createMeasurement…` objects
  * expose the same run step by step.
  */
-import { cpmlCoefficients } from '../cpml';
+import { cpmlCoefficients, type CpmlCoefficients } from '../cpml';
 import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from '../grading';
 import { DEFAULT_COURANT, checkCourant } from '../courant';
 import { checkPpw, discreteAngle, discreteWavenumberUnchecked, evanescentFactorUnchecked } from '../dispersion';
@@ -30,7 +30,7 @@ import { CpmlLine } from './line';
 import { TmzGrid2D } from './tmz';
 import { ModeLine } from './mode-line';
 import { dtftAt } from './dtft';
-import { fillPulse, planPulse, type PulsePlan } from './pulse';
+import { CUTOFF_LEVEL, EDGE_LEVEL_MIN, EDGE_LEVEL_TARGET, fillPulse, planPulse, type PulsePlan } from './pulse';
 
 const DEG = Math.PI / 180;
 
@@ -53,6 +53,10 @@ export function isMeasurementCancelled(e: unknown): e is MeasurementCancelled {
  * more to come back to the monitor.
  */
 export const FAR_LEFT_TERMINATION: AbsorberDesign = { layers: 48, order: 4 };
+/** The termination of a 'terminated' reference run: thick enough that its reflection is ≈ 1e-12 or below over 20–200 cells per wavelength up to 70° (exact model, physics.md §3). */
+export const REFERENCE_TERMINATION: AbsorberDesign = { layers: 160, order: 4 };
+/** Cells between the monitor and a reference termination (propagating waves; a near field gets NEAR_FIELD_LEFT_GAP_PER_DECAY per cell of decay). */
+const REFERENCE_GAP = 20;
 /** Cells between the far-left termination and the source. */
 const LEFT_GAP = 10;
 /** Cells from the source to the monitor. */
@@ -85,6 +89,15 @@ export interface MeasureOptions1D {
   frequencies?: number | readonly number[];
   /** Cells from the monitor to the absorber interface; default 10. */
   monitorDistance?: number;
+  /**
+   * The reference run: 'long' (default), a lossless region long enough that
+   * nothing returns within the record; or 'terminated', ended a few cells past
+   * the monitor by REFERENCE_TERMINATION, whose own reflection (a few 1e-12 or
+   * less from 20 to 200 cells per wavelength at up to 70°, from the exact model)
+   * then enters the measured r as a relative error of about that divided by |r|.
+   * Far cheaper for long records (high cells per wavelength, angles near grazing).
+   */
+  reference?: 'long' | 'terminated';
 }
 
 export interface MeasureOptions2D extends MeasureOptions1D {
@@ -98,6 +111,8 @@ export interface MeasureOptions2D extends MeasureOptions1D {
    * 'grid' (default): the periodic 2-D TMz grid of Ny columns. 'reduced': the
    * same grid's single mode cos(k_t·j), run exactly as one chain (mode-line.ts),
    * Ny times cheaper; the two agree to rounding (tests/verification.test.ts).
+   * Without transverseCells/transverseModes the chain takes k_t exactly from
+   * the angle at the band centre (no period to round it to).
    */
   engine?: 'grid' | 'reduced';
 }
@@ -154,6 +169,8 @@ export interface ReflectionMeasurement {
   engine: 'line' | 'grid' | 'reduced';
   /** True when the measured field is evanescent along the normal at every frequency (a near field). */
   evanescent: boolean;
+  /** The reference run used (MeasureOptions1D.reference). */
+  reference: 'long' | 'terminated';
   courant: number;
   courantMedium: number;
   index: number;
@@ -219,6 +236,7 @@ interface CommonPlan {
   monitorDistance: number;
   ppwLow: number;
   ppwHigh: number;
+  reference: 'long' | 'terminated';
 }
 
 function checkCommon(design: AbsorberDesign, opts: MeasureOptions1D, dims: 1 | 2, angleDeg: number): CommonPlan {
@@ -233,7 +251,11 @@ function checkCommon(design: AbsorberDesign, opts: MeasureOptions1D, dims: 1 | 2
   const ppwHigh = inRange('cells per wavelength (high)', opts.ppwHigh, ppwLow, MAX_PPW);
   const monitorDistance = wholeInRange('monitor distance', opts.monitorDistance ?? DEFAULT_MONITOR_DISTANCE, 1, 1000);
   const omegas = chooseFrequencies(opts.frequencies, ppwLow, ppwHigh, sm);
-  return { design: d, courant, courantMedium: sm, index, omegas, monitorDistance, ppwLow, ppwHigh };
+  const reference = opts.reference ?? 'long';
+  if (reference !== 'long' && reference !== 'terminated') {
+    throw new HushInputError('reference', `reference must be "long" or "terminated" (got ${JSON.stringify(reference)})`, 'value');
+  }
+  return { design: d, courant, courantMedium: sm, index, omegas, monitorDistance, ppwLow, ppwHigh, reference };
 }
 
 /**
@@ -394,6 +416,7 @@ function analyse(
     dimensions: dims,
     engine: a.engine,
     evanescent: a.evanescent,
+    reference: c.reference,
     courant: c.courant,
     courantMedium: sm,
     index: c.index,
@@ -423,6 +446,12 @@ function checkWork(steps: number, nodes: number): void {
   }
 }
 
+/** Lossless cells of the reference run to the right of the source's gap, and its right termination (null: a conductor far enough away). */
+function referenceGeometry(c: CommonPlan, t: Timing, rightGap: number): { cells: number; right: CpmlCoefficients | null } {
+  if (c.reference === 'long') return { cells: t.referenceRight, right: null };
+  return { cells: SOURCE_TO_MONITOR + Math.max(rightGap, c.monitorDistance + REFERENCE_GAP), right: cpmlCoefficients(resolveDesign(REFERENCE_TERMINATION), c.courantMedium) };
+}
+
 /** A 1-D measurement at normal incidence, ready to advance step by step. */
 export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions1D): MeasurementRun {
   const c = checkCommon(design, opts, 1, 0);
@@ -431,7 +460,8 @@ export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions
   const right = cpmlCoefficients(c.design, c.courantMedium);
   const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
   const abs = new CpmlLine({ cells: near, courantMedium: c.courantMedium, left, right });
-  const ref = new CpmlLine({ cells: LEFT_GAP + t.referenceRight, courantMedium: c.courantMedium, left });
+  const rg = referenceGeometry(c, t, 0);
+  const ref = new CpmlLine({ cells: LEFT_GAP + rg.cells, courantMedium: c.courantMedium, left, right: rg.right });
   checkWork(t.steps, abs.nodes + ref.nodes);
   const source = abs.leftInterface + LEFT_GAP;
   const probe = source + SOURCE_TO_MONITOR;
@@ -490,24 +520,32 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
   const angleDeg = inRange('angle', opts.angleDeg, 0, 90, { hiOpen: true, unit: 'degrees' });
   const c = checkCommon(design, opts, 2, angleDeg);
   const w0 = 0.5 * ((2 * Math.PI * c.courantMedium) / c.ppwLow + (2 * Math.PI * c.courantMedium) / c.ppwHigh);
-  let mode = chooseTransverseMode(angleDeg, w0, c.courantMedium);
-  if (opts.transverseCells !== undefined || opts.transverseModes !== undefined) {
-    const cells = wholeInRange('transverse cells', opts.transverseCells ?? mode.cells, 1, 100_000);
-    const modes = wholeInRange('transverse modes', opts.transverseModes ?? mode.modes, 0, Math.floor(cells / 2));
-    mode = { cells, modes };
+  const engine = opts.engine ?? 'grid';
+  if (engine !== 'grid' && engine !== 'reduced') {
+    throw new HushInputError('engine', `engine must be "grid" or "reduced" (got ${JSON.stringify(engine)})`, 'value');
+  }
+  const periodGiven = opts.transverseCells !== undefined || opts.transverseModes !== undefined;
+  let mode = { cells: 0, modes: 0 };
+  let kt: number;
+  if (engine === 'reduced' && !periodGiven) {
+    // The chain needs no period: k_t exactly as the angle at the band centre asks.
+    kt = discreteWavenumberUnchecked((2 * Math.PI * c.courantMedium) / w0, c.courantMedium, angleDeg) * Math.sin(angleDeg * DEG);
+  } else {
+    mode = chooseTransverseMode(angleDeg, w0, c.courantMedium);
+    if (periodGiven) {
+      const cells = wholeInRange('transverse cells', opts.transverseCells ?? mode.cells, 1, 100_000);
+      const modes = wholeInRange('transverse modes', opts.transverseModes ?? mode.modes, 0, Math.floor(cells / 2));
+      mode = { cells, modes };
+    }
+    kt = (2 * Math.PI * mode.modes) / mode.cells;
   }
   const ny = mode.cells;
-  const kt = (2 * Math.PI * mode.modes) / ny;
   for (const w of c.omegas) {
     try {
       discreteAngle(w, kt, c.courantMedium);
     } catch {
       throw new HushInputError('band', `the wave of ${((2 * Math.PI * c.courantMedium) / w).toPrecision(4)} cells per wavelength is evanescent along x at this angle`);
     }
-  }
-  const engine = opts.engine ?? 'grid';
-  if (engine !== 'grid' && engine !== 'reduced') {
-    throw new HushInputError('engine', `engine must be "grid" or "reduced" (got ${JSON.stringify(engine)})`, 'value');
   }
   const t = planTiming(c, kt);
   if (engine === 'reduced') {
@@ -516,9 +554,10 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
   const right = cpmlCoefficients(c.design, c.courantMedium);
   const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
-  checkWork(t.steps, (2 * (left.layers + 1) + near + c.design.layers + LEFT_GAP + t.referenceRight) * ny);
+  const rg = referenceGeometry(c, t, 0);
+  checkWork(t.steps, (2 * (left.layers + 1) + near + c.design.layers + LEFT_GAP + rg.cells + (rg.right ? rg.right.layers : 0)) * ny);
   const abs = new TmzGrid2D({ cells: near, transverseCells: ny, courantMedium: c.courantMedium, left, right });
-  const ref = new TmzGrid2D({ cells: LEFT_GAP + t.referenceRight, transverseCells: ny, courantMedium: c.courantMedium, left });
+  const ref = new TmzGrid2D({ cells: LEFT_GAP + rg.cells, transverseCells: ny, courantMedium: c.courantMedium, left, right: rg.right });
   const source = abs.leftInterface + LEFT_GAP;
   const probe = source + SOURCE_TO_MONITOR;
   const profile = new Float64Array(ny);
@@ -556,14 +595,15 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
  * chain (mode-line.ts) with transverse factor K = 2·sin(k_t/2); `leftGap` cells
  * between the far-left termination and the source.
  */
-function modeRun(c: CommonPlan, t: Timing, a: Analysis, leftGap: number): MeasurementRun {
+function modeRun(c: CommonPlan, t: Timing, a: Analysis, leftGap: number, rightGap = 0): MeasurementRun {
   const K = 2 * Math.sin(a.kt / 2);
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
   const right = cpmlCoefficients(c.design, c.courantMedium);
   const near = leftGap + SOURCE_TO_MONITOR + c.monitorDistance;
-  checkWork(t.steps, 2 * (left.layers + 1) + near + c.design.layers + leftGap + t.referenceRight);
+  const rg = referenceGeometry(c, t, rightGap);
+  checkWork(t.steps, 2 * (left.layers + 1) + near + c.design.layers + leftGap + rg.cells + (rg.right ? rg.right.layers : 0));
   const abs = new ModeLine({ cells: near, courantMedium: c.courantMedium, transverse: K, left, right });
-  const ref = new ModeLine({ cells: leftGap + t.referenceRight, courantMedium: c.courantMedium, transverse: K, left });
+  const ref = new ModeLine({ cells: leftGap + rg.cells, courantMedium: c.courantMedium, transverse: K, left, right: rg.right });
   const source = abs.leftInterface + leftGap;
   const probe = source + SOURCE_TO_MONITOR;
   const recAbs = new Float64Array(t.steps);
@@ -660,11 +700,119 @@ export function createMeasurementMode(design: AbsorberDesign, opts: MeasureOptio
     const t = planTimingNearField(c, kt);
     const longest = Math.max(...c.omegas.map((w) => 1 / normalWave(w, kt, c.courantMedium).q));
     const gap = Math.max(LEFT_GAP, Math.ceil(NEAR_FIELD_LEFT_GAP_PER_DECAY * longest));
-    return modeRun(c, t, { kt, angleDeg, transverseCells: 0, transverseModes: 0, engine: 'reduced', evanescent: true }, gap);
+    return modeRun(c, t, { kt, angleDeg, transverseCells: 0, transverseModes: 0, engine: 'reduced', evanescent: true }, gap, gap);
   }
   const t = planTiming(c, kt);
   return modeRun(c, t, { kt, angleDeg, transverseCells: 0, transverseModes: 0, engine: 'reduced', evanescent: false }, LEFT_GAP);
 }
+
+/** One run of a band measurement: the pulse band, the frequencies measured in it, and the wave. */
+export interface MeasurementPiece {
+  /** Pulse band (cells per wavelength in the medium); the measured frequencies lie inside it. */
+  ppwLow: number;
+  ppwHigh: number;
+  /** Cells per wavelength measured (inside the study's band). */
+  frequencies: number[];
+  /** Angle of incidence at the piece's centre (oblique), or the decay length there (near field). */
+  angleDeg?: number;
+  decayCells?: number;
+}
+
+export interface PieceOptions {
+  /** Vacuum Courant number; default 0.99/√3. */
+  courant?: number;
+  /** Background index; default 1. */
+  index?: number;
+  /** The study's band, cells per wavelength in the medium (short and long end). */
+  ppwMin: number;
+  ppwMax: number;
+  /** Angle of incidence (default 0), or a near field's decay length (cells) at the band's short end, scaled as L·ppw/ppwMin across it. */
+  angleDeg?: number;
+  decayCells?: number;
+  /** Frequencies measured over the whole band (default 5); a band split in k pieces measures 3 in each. */
+  frequencies?: number;
+}
+
+/** Largest number of pieces a band is split into. */
+export const MAX_PIECES = 24;
+
+/**
+ * Splits a study's band into the fewest pieces (equal in frequency) that one
+ * run each can measure at the given angle (or near field): the pulse keeps
+ * CUTOFF_LEVEL at the mode's nearest cut-off (the grazing point, zero
+ * frequency, the grid's upper limit) and EDGE_LEVEL_MIN at the piece's edges,
+ * so a piece's half-width may be at most a fraction sqrt(ln(1/EDGE_LEVEL_MIN)/ln(1/CUTOFF_LEVEL))
+ * of its distance to that cut-off (pulse.ts). Each piece's pulse band is
+ * widened, where the cut-off leaves room, to the width that gives the shortest
+ * pulse (edge target and cut-off constraints equal), so a narrow band needs no
+ * long record. Each piece takes k_t from its own centre: its centre meets the
+ * boundary at the angle asked, its lower frequencies more obliquely.
+ */
+export function planMeasurementPieces(opts: PieceOptions): MeasurementPiece[] {
+  if (opts === null || typeof opts !== 'object') throw new HushInputError('options', 'options must be an object with ppwMin and ppwMax', 'value');
+  const near = opts.decayCells !== undefined;
+  if (near && opts.angleDeg !== undefined && opts.angleDeg !== 0) throw new HushInputError('decay length', 'give an angle or a decay length, not both', 'value');
+  const angleDeg = inRange('angle', opts.angleDeg ?? 0, 0, 90, { hiOpen: true, unit: 'degrees' });
+  // Normal incidence runs on a 1-D line; anything else on the 2-D reduction.
+  const courant = checkCourant(opts.courant ?? DEFAULT_COURANT, near || angleDeg > 0 ? 2 : 1);
+  const index = inRange('background index', opts.index ?? 1, 1, 100);
+  const sm = courant / index;
+  const decay = near ? inRange('decay length', opts.decayCells, 0, 1e6, { loOpen: true, unit: 'cells' }) : 0;
+  const ppwMin = checkPpw('cells per wavelength (short end)', opts.ppwMin, sm, angleDeg);
+  const ppwMax = inRange('cells per wavelength (long end)', opts.ppwMax, ppwMin, MAX_PPW);
+  const count = wholeInRange('frequencies', opts.frequencies ?? DEFAULT_PIECE_FREQUENCIES, 1, 100);
+  const kEdgeTarget = Math.sqrt(Math.log(1 / EDGE_LEVEL_TARGET));
+  const kEdgeMin = Math.sqrt(Math.log(1 / EDGE_LEVEL_MIN));
+  const kCut = Math.sqrt(Math.log(1 / CUTOFF_LEVEL));
+  const fit = (0.98 * kEdgeMin) / kCut;
+  const nuHi = 1 / ppwMin;
+  const nuLo = 1 / ppwMax;
+  const omegaOf = (nu: number) => 2 * Math.PI * sm * nu;
+  /** Distance from ω_c to the mode's nearest cut-off, and the wave's parameter at ω_c; null when no such wave exists. */
+  const gapAt = (nuC: number): { gap: number; angle?: number; decay?: number } | null => {
+    const wc = omegaOf(nuC);
+    if (near) {
+      const L = (decay * nuHi) / nuC;
+      const f = evanescentFactorUnchecked(wc, sm, L);
+      if (!(f <= 1)) return null;
+      const grazing = cutoffs(2 * Math.asin(Math.sqrt(f)), sm).low;
+      return { gap: Math.min(wc, grazing - wc), decay: L };
+    }
+    const kt = discreteWavenumberUnchecked(1 / nuC, sm, angleDeg) * Math.sin(angleDeg * DEG);
+    const cut = cutoffs(kt, sm);
+    return { gap: Math.min(wc - Math.max(0, cut.low), cut.high - wc), angle: angleDeg };
+  };
+  for (let k = 1; k <= MAX_PIECES; k++) {
+    const pieces: MeasurementPiece[] = [];
+    for (let p = 0; p < k; p++) {
+      const a = nuHi + ((nuLo - nuHi) * p) / k;
+      const b = nuHi + ((nuLo - nuHi) * (p + 1)) / k;
+      const nuC = (a + b) / 2;
+      const g = gapAt(nuC);
+      const half = (omegaOf(a) - omegaOf(b)) / 2;
+      if (!g || !(g.gap > 0) || half > fit * g.gap) break;
+      // The shortest pulse: width 2·kEdgeTarget/h = 2·kCut/gap, i.e. h = gap·kEdgeTarget/kCut, no narrower than the piece.
+      const wc = omegaOf(nuC);
+      let h = Math.min(fit * g.gap, Math.max(half, (g.gap * kEdgeTarget) / kCut));
+      h = Math.min(h, wc - omegaOf(1 / MAX_PPW) * 1.0001);
+      const n = k === 1 ? count : 3;
+      const frequencies: number[] = [];
+      for (let i = 0; i < n; i++) frequencies.push(n === 1 ? 1 / nuC : 1 / (a + ((b - a) * i) / (n - 1)));
+      // The ends by rounding inside the pulse band.
+      const ppwLow = Math.min((2 * Math.PI * sm) / (wc + h), ...frequencies);
+      const ppwHigh = Math.max((2 * Math.PI * sm) / (wc - h), ...frequencies);
+      pieces.push({ ppwLow, ppwHigh, frequencies, ...(near ? { decayCells: g.decay } : { angleDeg }) });
+    }
+    if (pieces.length === k) return pieces;
+  }
+  throw new HushInputError(
+    'band',
+    `the band ${ppwMin}–${ppwMax} cells per wavelength cannot be measured in ${MAX_PIECES} runs ${near ? `as a near field decaying over ${decay} cells` : `at ${angleDeg}°`}: it sits too close to a cut-off of the grid`,
+  );
+}
+
+/** Frequencies a band measurement reads by default. */
+const DEFAULT_PIECE_FREQUENCIES = 5;
 
 /** Runs a prepared measurement to the end synchronously. */
 export function runToEnd(run: MeasurementRun): ReflectionMeasurement {
