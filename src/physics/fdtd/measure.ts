@@ -193,6 +193,8 @@ export interface ReflectionMeasurement {
   maxRelativeDifference: number;
   /** Largest |echo| over the last tenth of the record relative to the largest |echo|: near 0 when the record is complete. */
   echoTailLevel: number;
+  /** The same tail relative to the largest incident value at the monitor: where the echo itself is tiny (a strongly decaying near field) the tail is rounding noise of about 1e-16 of this. */
+  echoTailToIncident: number;
 }
 
 /** A measurement that can be advanced step by step. */
@@ -354,6 +356,8 @@ function analyse(
   }
   let tail = 0;
   for (let n = Math.floor(0.9 * T); n < T; n++) tail = Math.max(tail, Math.abs(echo[n]));
+  let peakIncident = 0;
+  for (let n = 0; n < T; n++) peakIncident = Math.max(peakIncident, Math.abs(recRef[n]));
   const z = new Float64Array(2);
   // Peak of the incident spectrum: a scan over the pulse's main lobe plus the measured frequencies.
   let peak = 0;
@@ -433,6 +437,7 @@ function analyse(
     frequencies: rows,
     maxRelativeDifference: worst,
     echoTailLevel: peakEcho > 0 ? tail / peakEcho : 0,
+    echoTailToIncident: peakIncident > 0 ? tail / peakIncident : 0,
   };
 }
 
