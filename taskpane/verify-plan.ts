@@ -1,28 +1,37 @@
 /**
- * Which time-domain runs the pane can afford for a design, chosen before any
- * step is taken: the measurement routines of src/physics/fdtd report their
- * cost (cell updates) when a run is prepared, so the pane tries the study's
- * band first and, when the band is too narrow for a short record, a band
- * widened symmetrically in frequency around it, measuring only frequencies
- * inside the study's band. The 2-D run uses the study's largest angle.
+ * Which time-domain runs the pane makes for a design, chosen before any step
+ * is taken. Both checks run on exact reductions of the study's grid to one
+ * transverse mode: the 1-D line at normal incidence, and the one-mode chain of
+ * a periodic 2-D grid (src/physics/fdtd/mode-line.ts) at the study's largest
+ * angle, which gives what the 2-D grid gives to rounding at a fraction of its
+ * cost. The study's band is split into the fewest pieces one run can each
+ * measure (planMeasurementPieces: clear of the grid's cut-offs, a narrow band
+ * widened in the pulse so the record stays short), and every run ends its
+ * reference at a thick absorber instead of a long lossless line. The
+ * measurement routines report their cost (cell updates) when a run is
+ * prepared; the pane bounds that work, not time.
  */
 import type { AbsorberDesign } from '../src/plan/steps';
 import { createMeasurement1D, createMeasurement2D, type MeasureOptions1D, type MeasureOptions2D, type MeasurementRun } from '../src/plan/steps';
+// The band planner of the measurement (src/plan/steps.ts does not re-export it yet).
+import { planMeasurementPieces } from '../src/physics/fdtd/measure';
 import type { VerifyGrid } from './verify-protocol';
 
-/** Largest runs the pane starts, in cell updates (about 10–20 s of a browser's single thread for the 2-D run). */
+/** Largest work the pane starts per check, in cell updates (all pieces of the band together). */
 export const PANE_BUDGET_1D = 5e8;
 export const PANE_BUDGET_2D = 1.2e9;
-/** Widening factors tried on the band's frequency span when the study's own band needs too long a record. */
-export const WIDENING = [1, 1.1, 1.25, 1.5, 2] as const;
 /** Frequencies measured inside the study's band. */
 export const MEASURED_FREQUENCIES = 5;
 
 export interface PreparedRun<O> {
+  /** The first piece of the band, */
   run: MeasurementRun;
   options: O;
+  /** … the other pieces, run after it, */
+  rest: { run: MeasurementRun; options: O }[];
+  /** … and the work of all of them. */
   cellUpdates: number;
-  /** Set when the run covers less than asked (for example one frequency of the band), and why. */
+  /** Set when the run covers less than asked, or is split, and why. */
   note?: string;
 }
 
@@ -44,7 +53,7 @@ export function measuredPpw(grid: VerifyGrid): number[] {
   return out;
 }
 
-/** The band [ppwLow, ppwHigh] widened by `factor` in frequency span around the study's band centre. */
+/** The band [ppwLow, ppwHigh] widened by `factor` in frequency span around the study's band centre (band arithmetic for callers; the runs widen their pulses themselves). */
 export function widenedBand(grid: VerifyGrid, factor: number): [number, number] {
   const fHi = 1 / grid.ppwMin;
   const fLo = 1 / grid.ppwMax;
@@ -54,45 +63,56 @@ export function widenedBand(grid: VerifyGrid, factor: number): [number, number] 
   return [1 / (centre + half), 1 / Math.max(centre - half, centre * 0.05)];
 }
 
-function prepare<O extends MeasureOptions1D>(make: (o: O) => MeasurementRun, base: (band: [number, number]) => O, grid: VerifyGrid, budget: number): PreparedRun<O> | { skipped: string } {
-  let last = '';
-  for (const factor of WIDENING) {
-    const band: [number, number] = factor === 1 ? [grid.ppwMin, grid.ppwMax] : widenedBand(grid, factor);
-    const options = base(band);
-    try {
-      const run = make(options);
-      const cellUpdates = run.totalSteps * run.cellUpdatesPerStep;
-      if (cellUpdates <= budget) return { run, options, cellUpdates };
-      last = `it would need ${cellUpdates.toExponential(1)} cell updates (the pane runs at most ${budget.toExponential(1)})`;
-    } catch (e) {
-      last = e instanceof Error ? e.message : String(e);
+function prepare<O extends MeasureOptions1D>(
+  grid: VerifyGrid,
+  angleDeg: number,
+  make: (o: O) => MeasurementRun,
+  options: (piece: { ppwLow: number; ppwHigh: number; frequencies: number[]; angleDeg?: number }) => O,
+  budget: number,
+): PreparedRun<O> | { skipped: string } {
+  try {
+    const pieces = planMeasurementPieces({
+      courant: grid.courant,
+      index: grid.index,
+      ppwMin: grid.ppwMin,
+      ppwMax: grid.ppwMax,
+      angleDeg,
+      frequencies: MEASURED_FREQUENCIES,
+    });
+    const runs = pieces.map((p) => {
+      const o = options(p);
+      return { run: make(o), options: o };
+    });
+    const cellUpdates = runs.reduce((sum, r) => sum + r.run.totalSteps * r.run.cellUpdatesPerStep, 0);
+    if (cellUpdates > budget) {
+      return { skipped: `it would need ${cellUpdates.toExponential(1)} cell updates (the pane runs at most ${budget.toExponential(1)})` };
     }
+    const note = runs.length > 1 ? `the band is measured in ${runs.length} runs, each clear of the grid's cut-offs at ${angleDeg}°` : undefined;
+    return { ...runs[0], rest: runs.slice(1), cellUpdates, ...(note ? { note } : {}) };
+  } catch (e) {
+    return { skipped: e instanceof Error ? e.message : String(e) };
   }
-  return { skipped: last };
 }
 
 export function chooseRuns(design: AbsorberDesign, grid: VerifyGrid): RunChoice {
-  const frequencies = measuredPpw(grid);
-  const common = (band: [number, number]) => ({ courant: grid.courant, index: grid.index, ppwLow: band[0], ppwHigh: band[1], frequencies });
-  const oneD = prepare<MeasureOptions1D>((o) => createMeasurement1D(design, o), common, grid, PANE_BUDGET_1D);
-  const twoDAt = (g: VerifyGrid) =>
-    prepare<MeasureOptions2D>(
-      (o) => createMeasurement2D(design, o),
-      (band) => ({ courant: g.courant, index: g.index, ppwLow: band[0], ppwHigh: band[1], frequencies: measuredPpw(g), angleDeg: g.angleMaxDeg }),
-      g,
-      PANE_BUDGET_2D,
-    );
-  let twoD: RunChoice['twoD'];
-  if (grid.dimensions === 1) twoD = { skipped: 'a 1-D study has no oblique incidence' };
-  else {
-    twoD = twoDAt(grid);
-    // A whole band at an oblique angle often needs too long a record (or reaches the grid's cut-off);
-    // one frequency at the band's centre is a shorter, narrower run that still tests the angle.
-    if (!('run' in twoD) && grid.ppwMax !== grid.ppwMin) {
-      const centre = 2 / (1 / grid.ppwMin + 1 / grid.ppwMax);
-      const one = twoDAt({ ...grid, ppwMin: centre, ppwMax: centre });
-      if ('run' in one) twoD = { ...one, note: `2-D run at one frequency (${centre.toPrecision(3)} cells per wavelength) instead of the band: for the band, ${twoD.skipped}` };
-    }
-  }
+  const common = (p: { ppwLow: number; ppwHigh: number; frequencies: number[] }) => ({
+    courant: grid.courant,
+    index: grid.index,
+    ppwLow: p.ppwLow,
+    ppwHigh: p.ppwHigh,
+    frequencies: p.frequencies,
+    reference: 'terminated' as const,
+  });
+  const oneD = prepare<MeasureOptions1D>(grid, 0, (o) => createMeasurement1D(design, o), common, PANE_BUDGET_1D);
+  const twoD: RunChoice['twoD'] =
+    grid.dimensions === 1
+      ? { skipped: 'a 1-D study has no oblique incidence' }
+      : prepare<MeasureOptions2D>(
+          grid,
+          grid.angleMaxDeg,
+          (o) => createMeasurement2D(design, o),
+          (p) => ({ ...common(p), angleDeg: p.angleDeg ?? grid.angleMaxDeg, engine: 'reduced' }),
+          PANE_BUDGET_2D,
+        );
   return { oneD, twoD };
 }

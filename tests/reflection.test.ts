@@ -4,6 +4,7 @@ import {
   reflection,
   reflectionAtWavenumber,
   discreteWavenumber,
+  discreteWavenumber3D,
   sigmaOpt,
   sigmaOptNorm,
   cpmlCoefficients,
@@ -151,4 +152,167 @@ describe('bad inputs throw typed errors with specific messages', () => {
       expect(f).toThrow(msg);
     });
   }
+});
+
+describe('sampling conventions (issue 10 §1, physics.md §6)', () => {
+  it('reproduce the independently measured check values at σ_opt and S = 0.99/√3 (physics.md §6): N=12, m=4, 40 cells/λ → node 9.9e-8, average 2.8e-7; N=12, m=3, 20 cells/λ, lagged → about 5 %', () => {
+    const node = reflection({ layers: 12, order: 4 }, { ppw: 40 }).amplitude;
+    const average = reflection({ layers: 12, order: 4, sampling: 'average' }, { ppw: 40 }).amplitude;
+    const lagged = reflection({ layers: 12, order: 3, sampling: 'lagged' }, { ppw: 20 }).amplitude;
+    // The check values are quoted to two digits.
+    expect(node).toBeGreaterThan(9.85e-8);
+    expect(node).toBeLessThan(9.95e-8);
+    expect(average).toBeGreaterThan(2.75e-7);
+    expect(average).toBeLessThan(2.85e-7);
+    expect(lagged).toBeGreaterThan(0.045);
+    expect(lagged).toBeLessThan(0.055);
+    // 'node' is the default convention, bit for bit.
+    expect(reflection({ layers: 12, order: 4, sampling: 'node' }, { ppw: 40 }).amplitude).toBe(node);
+  });
+
+  it('sample each node as the issue defines them (derived from the definitions, Roden & Gedney 2000 for b)', () => {
+    const N = 4;
+    const m = 2;
+    const S = 0.5;
+    const sigmaMax = 0.8 * (m + 1); // σ_opt, normalised
+    const b = (sigma: number) => Math.exp(-sigma * S); // κ = 1, α = 0
+    const node = cpmlCoefficients({ layers: N, order: m }, S);
+    const offset = cpmlCoefficients({ layers: N, order: m, sampling: 'offset' }, S);
+    const lagged = cpmlCoefficients({ layers: N, order: m, sampling: 'lagged' }, S);
+    const average = cpmlCoefficients({ layers: N, order: m, sampling: 'average' }, S);
+    for (let i = 0; i < N; i++) {
+      expect(node.eB[i]).toBeCloseTo(b(sigmaMax * (i / N) ** m), 15);
+      expect(node.hB[i]).toBeCloseTo(b(sigmaMax * ((i + 0.5) / N) ** m), 15);
+      // offset: every node at depth d sampled at (d + ½)/N, capped at 1.
+      expect(offset.eB[i]).toBeCloseTo(b(sigmaMax * Math.min((i + 0.5) / N, 1) ** m), 15);
+      expect(offset.hB[i]).toBeCloseTo(b(sigmaMax * ((i + 1) / N) ** m), 15);
+      // lagged: the H node at depth i + ½ takes the E node's value at depth i.
+      expect(lagged.hB[i]).toBe(lagged.eB[i]);
+      expect(lagged.eB[i]).toBe(node.eB[i]);
+      // average: the H node's cell [i, i + 1] lies inside the absorber: ∫ σ_max (x/N)^m dx.
+      const cell = (sigmaMax * N * (((i + 1) / N) ** (m + 1) - (i / N) ** (m + 1))) / (m + 1);
+      expect(average.hB[i]).toBeCloseTo(b(cell), 15);
+    }
+    // average: the E node at depth 0 integrates over [0, ½] only (the part outside the absorber counts as zero), so it is lossy.
+    expect(average.eB[0]).toBeCloseTo(b((sigmaMax * N * (0.5 / N) ** (m + 1)) / (m + 1)), 15);
+    expect(average.eA[0]).toBeLessThan(0);
+    expect(offset.eA[0]).toBeLessThan(0);
+    expect(node.eA[0]).toBe(0);
+  });
+
+  it("'average' equals a numerical integral of every profile over each node's cell, for geometric grading with κ and α too (independent computation: composite Simpson rule, 2,000 panels)", () => {
+    const design = { layers: 6, order: 3, grading: 'geometric' as const, geometricRatio: 1.7, kappaMax: 4, alphaMaxNorm: 0.3, alphaOrder: 2 };
+    const d = resolveDesign(design);
+    const N = d.layers;
+    const g = d.geometricRatio;
+    const sigma0 = (0.8 * N * Math.log(g)) / (g ** N - 1);
+    const profiles = (x: number) => [sigma0 * g ** x, (d.kappaMax - 1) * (x / N), d.alphaMaxNorm * (1 - x / N) ** d.alphaOrder];
+    const simpson = (k: number, a: number, b: number) => {
+      const n = 2000;
+      const h = (b - a) / n;
+      let sum = profiles(a)[k] + profiles(b)[k];
+      for (let j = 1; j < n; j++) sum += (j % 2 ? 4 : 2) * profiles(a + j * h)[k];
+      return (sum * h) / 3;
+    };
+    const S = 0.4;
+    const c = cpmlCoefficients({ ...design, sampling: 'average' }, S);
+    for (let i = 0; i <= N; i++) {
+      const a = Math.max(i - 0.5, 0);
+      const b2 = Math.min(i + 0.5, N);
+      const sigma = simpson(0, a, b2);
+      const kappa = 1 + simpson(1, a, b2);
+      const alpha = simpson(2, a, b2);
+      expect(c.eInvKappa[i]).toBeCloseTo(1 / kappa, 12);
+      expect(c.eB[i]).toBeCloseTo(Math.exp(-(sigma / kappa + alpha) * S), 12);
+    }
+  });
+
+  it('rejects an unknown convention with the allowed names', () => {
+    expect(() => reflection({ layers: 8, order: 3, sampling: 'cell' as never }, { ppw: 20 })).toThrow(/sampling must be one of "node", "average", "offset", "lagged" \(got "cell"\)/);
+  });
+});
+
+describe('evanescent incidence (issue 10 §2, physics.md §6)', () => {
+  const tiny = 1e-300; // σ → 0 (a strength must be positive)
+  it('with σ = 0 the conductor at depth N gives |r| = e^{−2N/L} (physics.md §6): exactly, up to the rounding of the split (absolute 1e-15: the split subtracts terms of order 1)', () => {
+    for (const [N, L] of [
+      [8, 1],
+      [8, 2.5],
+      [12, 5],
+      [5, 10],
+    ]) {
+      for (const dimensions of [2, 3]) {
+        const r = reflection({ layers: N, order: 3, strength: tiny }, { ppw: 20, decayCells: L, dimensions });
+        const exact = Math.exp((-2 * N) / L);
+        expect(Math.abs(r.amplitude - exact)).toBeLessThan(1e-15 + 1e-13 * exact);
+        // the perfect conductor reflects with a sign flip: r = −e^{−2N/L}
+        expect(Math.abs(r.phaseDeg)).toBeCloseTo(180, 6);
+        // continuous theory: exp(−(2/L)∫κ dx) = e^{−2N/L} at κ = 1 (derived in continuous.ts)
+        expect(r.continuous).toBeCloseTo(Math.exp((-2 * N) / L), 14);
+      }
+    }
+  });
+  it('κ > 1 lowers it (physics.md §6) where the decay spans more than a cell or so; at L = 1 cell κ\'s own grading reflects more (seen: 8.0e-6 against 1.1e-7)', () => {
+    for (const L of [2, 3, 5, 10]) {
+      const plain = reflection({ layers: 8, order: 3, strength: tiny }, { ppw: 20, decayCells: L, dimensions: 2 }).amplitude;
+      const stretched = reflection({ layers: 8, order: 3, strength: tiny, kappaMax: 3 }, { ppw: 20, decayCells: L, dimensions: 2 });
+      expect(stretched.amplitude).toBeLessThan(plain);
+      // continuous theory: e^{−(2/L)·N·(1 + (κ_max − 1)/(m + 1))} (derived from ∫κ dx)
+      expect(stretched.continuous).toBeCloseTo(Math.exp((-2 * 8 * (1 + 2 / 4)) / L), 14);
+    }
+    const atOne = reflection({ layers: 8, order: 3, strength: tiny, kappaMax: 3 }, { ppw: 20, decayCells: 1, dimensions: 2 }).amplitude;
+    expect(atOne).toBeGreaterThan(reflection({ layers: 8, order: 3, strength: tiny }, { ppw: 20, decayCells: 1, dimensions: 2 }).amplitude);
+  });
+  it('σ alone can raise it (physics.md §6): σ_opt at 20 cells/λ and L = 1', () => {
+    const bare = reflection({ layers: 8, order: 3, strength: tiny }, { ppw: 20, decayCells: 1, dimensions: 2 }).amplitude;
+    expect(reflection({ layers: 8, order: 3 }, { ppw: 20, decayCells: 1, dimensions: 2 }).amplitude).toBeGreaterThan(bare);
+  });
+  it('agrees with the wavenumber form at the same transverse factor (derived: K_t²/4 = sin²(ωΔt/2)/S_m² + sinh²(1/(2L)))', () => {
+    const S = 0.5;
+    const ppw = 18;
+    const L = 3;
+    const omegaDt = (2 * Math.PI * S) / ppw;
+    const f = (Math.sin(omegaDt / 2) / S) ** 2 + Math.sinh(1 / (2 * L)) ** 2;
+    const kt = 2 * Math.asin(Math.sqrt(f));
+    const design = { layers: 6, order: 2, kappaMax: 3, alphaMaxNorm: 0.1 };
+    const a = reflection(design, { ppw, courant: S, dimensions: 2, decayCells: L });
+    expect(reflectionAtWavenumber(design, omegaDt, kt, S).amplitude).toBeCloseTo(a.amplitude, 14);
+  });
+  it('refuses what it cannot be, with a specific message', () => {
+    const d = { layers: 8, order: 3 };
+    expect(() => reflection(d, { ppw: 20, decayCells: 3, angleDeg: 10 })).toThrow(/give either a decay length .* or an angle of incidence .*, not both/);
+    expect(() => reflection(d, { ppw: 20, decayCells: 3, dimensions: 1, courant: 0.9 })).toThrow(/a 1-D grid has no transverse direction, so no evanescent field/);
+    // 2-D: K_t²/4 ≤ 1; a decay of 0.3 cells needs sinh²(1/0.6) ≈ 6.3.
+    expect(() => reflection(d, { ppw: 20, decayCells: 0.3, dimensions: 2 })).toThrow(/needs a transverse wavenumber no 2-D grid carries .* the shortest decay this grid carries at that frequency is 0\.5/);
+    expect(() => reflection(d, { ppw: 20, decayCells: 0 })).toThrow(/decay length must be greater than 0/);
+  });
+});
+
+describe('3-D directions (issue 10 §4)', () => {
+  it('azimuth 0 is the in-plane value, bit for bit, and the grid symmetry φ → 90° − φ holds (derived from the Yee relation, physics.md §4)', () => {
+    const d = { layers: 8, order: 3, kappaMax: 2 };
+    const inPlane = reflection(d, { ppw: 12, angleDeg: 40 }).amplitude;
+    expect(reflection(d, { ppw: 12, angleDeg: 40, azimuthDeg: 0 }).amplitude).toBe(inPlane);
+    expect(reflection(d, { ppw: 12, angleDeg: 40, azimuthDeg: 90 }).amplitude).toBeCloseTo(inPlane, 14);
+    expect(reflection(d, { ppw: 12, angleDeg: 40, azimuthDeg: 30 }).amplitude).toBeCloseTo(reflection(d, { ppw: 12, angleDeg: 40, azimuthDeg: 60 }).amplitude, 14);
+  });
+  it('the direction solver meets the Yee relation and is dispersion-free along the body diagonal at S = 1/√3 (derived from physics.md §4, as the 2-D diagonal at 1/√2)', () => {
+    const S = 1 / Math.sqrt(3);
+    const theta = (Math.acos(1 / Math.sqrt(3)) * 180) / Math.PI;
+    for (const ppw of [5, 10, 40]) expect(discreteWavenumber3D(ppw, S, theta, 45)).toBeCloseTo((2 * Math.PI) / ppw, 12);
+    const [ppw, sm, th, ph] = [7, 0.45, 33, 17];
+    const q = discreteWavenumber3D(ppw, sm, th, ph);
+    const c = [Math.cos((th * Math.PI) / 180), Math.sin((th * Math.PI) / 180) * Math.cos((ph * Math.PI) / 180), Math.sin((th * Math.PI) / 180) * Math.sin((ph * Math.PI) / 180)];
+    const lhs = c.reduce((s, ci) => s + Math.sin((q * ci) / 2) ** 2, 0);
+    expect(lhs).toBeCloseTo((Math.sin((Math.PI * sm) / ppw) / sm) ** 2, 14);
+  });
+  it('refuses an azimuth on a 2-D grid', () => {
+    expect(() => reflection({ layers: 8, order: 3 }, { ppw: 20, angleDeg: 30, azimuthDeg: 10, dimensions: 2 })).toThrow(/a 2-D grid has one plane of incidence only/);
+  });
+  it('takes the default Courant number 0.99/√D of the grid it is given (common practice: a small margin below the limit)', () => {
+    const d = { layers: 8, order: 3 };
+    expect(reflection(d, { ppw: 20, dimensions: 2 }).amplitude).toBe(reflection(d, { ppw: 20, dimensions: 2, courant: 0.99 / Math.SQRT2 }).amplitude);
+    expect(reflection(d, { ppw: 20, dimensions: 1 }).amplitude).toBe(reflection(d, { ppw: 20, dimensions: 1, courant: 0.99 }).amplitude);
+    expect(reflection(d, { ppw: 20 }).amplitude).toBe(reflection(d, { ppw: 20, courant: 0.99 / Math.sqrt(3) }).amplitude);
+  });
 });

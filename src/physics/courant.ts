@@ -13,8 +13,14 @@ export function courantLimit(dimensions: number): number {
 /** Smallest Courant number accepted (smaller steps only multiply the work). */
 export const MIN_COURANT = 1e-4;
 
-/** Default Courant number: 0.99 of the 3-D limit (common practice: a small margin below the limit). */
+/** Default Courant number of a 3-D grid: 0.99 of the 3-D limit (common practice: a small margin below the limit). */
 export const DEFAULT_COURANT = 0.99 / Math.sqrt(3);
+
+/** Default Courant number of a D-dimensional grid, 0.99/√D (DEFAULT_COURANT in 3-D); D is checked (1, 2 or 3). */
+export function defaultCourant(dimensions: number): number {
+  const d = wholeInRange('dimensions', dimensions, 1, 3);
+  return d === 3 ? DEFAULT_COURANT : 0.99 / Math.sqrt(d);
+}
 
 /** Checks a vacuum Courant number against the limit of a D-dimensional grid and returns it. */
 export function checkCourant(courant: unknown, dimensions: number = 3): number {

@@ -3,10 +3,14 @@
  * Opt. Technol. Lett. 27, 334 (2000); Taflove & Hagness, 3rd ed., ch. 7):
  *   b = exp(−(σ/κ + α)·Δt/ε₀),  a = σ·(b − 1)/(σκ + κ²α),
  *   ψⁿ = b·ψⁿ⁻¹ + a·Dⁿ, stretched difference = D/κ + ψ.
- * Node convention (physics.md §3): E nodes at depths i = 0…N, H nodes at
- * depths i + ½, i = 0…N−1, profiles sampled at each node's own depth.
+ * Node layout (physics.md §3): E nodes at depths i = 0…N, H nodes at depths
+ * i + ½, i = 0…N−1; how the profiles reach the nodes is the design's sampling
+ * convention (grading.ts, SamplingConvention; physics.md §6). The H node at
+ * depth −½ is lossless under every convention, so the reflection kernel's
+ * split into incident and reflected waves (which uses E at depths 0 and −1
+ * and the lossless H at −½) holds even where the E node at depth 0 is lossy.
  */
-import { profileAt, resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
+import { profileAt, profileIntegral, resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
 import { checkCourantMedium } from './courant';
 
 /** Coefficients of one absorber on its E and H nodes. */
@@ -49,26 +53,50 @@ const ab = new Float64Array(2);
 
 /**
  * Fills `out` (from `allocateCoefficients`) with the coefficients of `design`
- * on a grid of medium Courant number S_m = S/n. Returns `out`.
+ * on a grid of medium Courant number S_m = S/n, following the design's
+ * sampling convention. Returns `out`.
  */
 export function fillCoefficients(design: ResolvedDesign, courantMedium: number, out: CpmlCoefficients): CpmlCoefficients {
   const N = design.layers;
   out.layers = N;
+  const sampling = design.sampling;
+  if (sampling === 'average') {
+    // σ, κ − 1 and α integrated over each node's own cell, clipped to [0, N] (cell width 1).
+    for (let i = 0; i <= N; i++) {
+      profileIntegral(design, Math.max(i - 0.5, 0), Math.min(i + 0.5, N), prof);
+      setE(out, i, prof[0], 1 + prof[1], prof[2], courantMedium);
+    }
+    for (let i = 0; i < N; i++) {
+      profileIntegral(design, i, i + 1, prof);
+      setH(out, i, prof[0], 1 + prof[1], prof[2], courantMedium);
+    }
+    return out;
+  }
   for (let i = 0; i <= N; i++) {
-    profileAt(design, i / N, prof);
-    nodeCoefficients(prof[0], prof[1], prof[2], courantMedium, ab);
-    out.eB[i] = ab[0];
-    out.eA[i] = ab[1];
-    out.eInvKappa[i] = 1 / prof[1];
+    // 'offset': the node at depth d sampled at (d + ½)/N, capped at the back.
+    profileAt(design, sampling === 'offset' ? Math.min((i + 0.5) / N, 1) : i / N, prof);
+    setE(out, i, prof[0], prof[1], prof[2], courantMedium);
   }
   for (let i = 0; i < N; i++) {
-    profileAt(design, (i + 0.5) / N, prof);
-    nodeCoefficients(prof[0], prof[1], prof[2], courantMedium, ab);
-    out.hB[i] = ab[0];
-    out.hA[i] = ab[1];
-    out.hInvKappa[i] = 1 / prof[1];
+    // 'lagged': the H node at depth i + ½ takes the E node's value at depth i.
+    profileAt(design, sampling === 'offset' ? (i + 1) / N : sampling === 'lagged' ? i / N : (i + 0.5) / N, prof);
+    setH(out, i, prof[0], prof[1], prof[2], courantMedium);
   }
   return out;
+}
+
+function setE(out: CpmlCoefficients, i: number, sigma: number, kappa: number, alpha: number, courantMedium: number): void {
+  nodeCoefficients(sigma, kappa, alpha, courantMedium, ab);
+  out.eB[i] = ab[0];
+  out.eA[i] = ab[1];
+  out.eInvKappa[i] = 1 / kappa;
+}
+
+function setH(out: CpmlCoefficients, i: number, sigma: number, kappa: number, alpha: number, courantMedium: number): void {
+  nodeCoefficients(sigma, kappa, alpha, courantMedium, ab);
+  out.hB[i] = ab[0];
+  out.hA[i] = ab[1];
+  out.hInvKappa[i] = 1 / kappa;
 }
 
 /**

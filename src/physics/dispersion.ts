@@ -117,6 +117,91 @@ export function discreteWavenumberUnchecked(ppw: number, courantMedium: number, 
 }
 
 /**
+ * Magnitude q = |k̃|·Δ of the discrete wavevector of a plane wave of `ppw`
+ * cells per wavelength in a 3-D grid, travelling at `angleDeg` θ from the x
+ * axis (the face normal) in a plane of incidence turned by the azimuth
+ * `azimuthDeg` φ about x: direction (cos θ, sin θ·cos φ, sin θ·sin φ), solving
+ * Σ_i sin²(q·c_i/2) = sin²(πS_m/ppw)/S_m² on its first branch (the Yee
+ * relation of physics.md §4). φ = 0 is the in-plane `discreteWavenumber`.
+ * Checks S_m (against the 3-D limit 1/√3 when the direction leaves the x–y plane),
+ * θ and φ (−360° to 360°) and ppw.
+ */
+export function discreteWavenumber3D(ppw: number, courantMedium: number, angleDeg = 0, azimuthDeg = 0): number {
+  const th = checkAngle(angleDeg);
+  const ph = inRange('azimuth', azimuthDeg, -360, 360, { unit: 'degrees' });
+  const sm = checkCourantMedium(courantMedium, Math.sin(th * DEG) * Math.sin(ph * DEG) === 0 ? 1 : 3);
+  return discreteWavenumber3DUnchecked(checkPpw('cells per wavelength', ppw, sm, th), sm, th, ph);
+}
+
+/** `discreteWavenumber3D` without the checks (src/physics/internal.ts). */
+export function discreteWavenumber3DUnchecked(ppw: number, courantMedium: number, angleDeg: number, azimuthDeg: number): number {
+  if (azimuthDeg === 0) return discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
+  const th = angleDeg * DEG;
+  const ph = azimuthDeg * DEG;
+  const cx = Math.abs(Math.cos(th));
+  const cy = Math.abs(Math.sin(th) * Math.cos(ph));
+  const cz = Math.abs(Math.sin(th) * Math.sin(ph));
+  const target = dispersionTarget(ppw, courantMedium);
+  const qMax = Math.PI / Math.max(cx, cy, cz);
+  const g = (q: number) => {
+    const a = Math.sin((q * cx) / 2);
+    const b = Math.sin((q * cy) / 2);
+    const c = Math.sin((q * cz) / 2);
+    return a * a + b * b + c * c;
+  };
+  if (target > g(qMax)) {
+    throw new HushInputError('cells per wavelength', `cells per wavelength ${ppw} is below the resolvable limit of this grid`);
+  }
+  // Newton from the axis solution, safeguarded by bisection on [lo, hi] (Σ sin² rises monotonically up to qMax).
+  let lo = 0;
+  let hi = qMax;
+  let q = Math.min(2 * Math.asin(Math.sqrt(Math.min(1, target))), qMax * 0.999);
+  for (let it = 0; it < 60; it++) {
+    const f = g(q) - target;
+    if (f > 0) hi = q;
+    else lo = q;
+    const df = 0.5 * (cx * Math.sin(q * cx) + cy * Math.sin(q * cy) + cz * Math.sin(q * cz));
+    let next = q - f / df;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - q) <= 1e-15 * q) {
+      q = next;
+      break;
+    }
+    q = next;
+  }
+  return q;
+}
+
+/**
+ * Transverse Yee factor sin²(k_y/2) + sin²(k_z/2) of the discrete plane wave of
+ * `ppw` cells per wavelength at angle θ from the face normal and azimuth φ,
+ * with (k_y, k_z) = |k̃|·sin θ·(cos φ, sin φ) (unchecked; src/physics/internal.ts).
+ * At φ = 0 it is sin²(k_t/2), k_t = |k̃|·sin θ, the value the 2-D chain uses.
+ */
+export function transverseFactorUnchecked(ppw: number, courantMedium: number, angleDeg: number, azimuthDeg: number): number {
+  const q = discreteWavenumber3DUnchecked(ppw, courantMedium, angleDeg, azimuthDeg);
+  const kt = q * Math.sin(angleDeg * DEG);
+  if (azimuthDeg === 0) {
+    const s = Math.sin(kt / 2);
+    return s * s;
+  }
+  const a = Math.sin((kt * Math.cos(azimuthDeg * DEG)) / 2);
+  const b = Math.sin((kt * Math.sin(azimuthDeg * DEG)) / 2);
+  return a * a + b * b;
+}
+
+/**
+ * Transverse factor of a near field that decays as e^{−d/L} along the face
+ * normal at phase step ωΔt (physics.md §6): in cells, K_x² = −4·sinh²(1/(2L))
+ * and K_t² = Ω² − K_x², so the factor K_t²/4 = sin²(ωΔt/2)/S_m² + sinh²(1/(2L)) (unchecked).
+ */
+export function evanescentFactorUnchecked(omegaDt: number, courantMedium: number, decayCells: number): number {
+  const st = Math.sin(omegaDt / 2) / courantMedium;
+  const sh = Math.sinh(1 / (2 * decayCells));
+  return st * st + sh * sh;
+}
+
+/**
  * Numerical phase velocity relative to the medium's wave speed, v_p/v = ω/(|k̃|v),
  * for `ppw` cells per (physical) wavelength, vacuum Courant number `courant`,
  * direction `angleDeg` and background index `index`, on a grid of `dimensions`

@@ -3,12 +3,30 @@
  * All conductivities here are normalised: σ_norm = σ·η₀·Δ·n, α_norm = α·η₀·Δ·n,
  * so that σΔt/ε₀ = σ_norm·S_m with S_m = S/n the Courant number in the medium.
  */
-import { HushInputError } from './errors';
+import { HushInputError, quote } from './errors';
 import { ETA0, MIN_CELL_METRES, MAX_ALPHA_NORM, MAX_KAPPA, MAX_LAYERS, MAX_ORDER, MAX_STRENGTH } from './constants';
 import { finite, inRange, wholeInRange } from './validate';
 
 /** How σ grows with depth. */
 export type GradingKind = 'polynomial' | 'geometric';
+
+/**
+ * How a solver samples the graded profiles onto its E and H nodes (E nodes at
+ * integer depths d = 0…N, H nodes at d + ½; depth 0 is the interface node and
+ * the perfect conductor sits on the E node at depth N):
+ *  - 'node': each node at its own depth, u = d/N (physics.md §3; the default);
+ *  - 'average': each node's σ, κ − 1 and α are the integrals of their profiles
+ *    over the node's own cell [max(d − ½, 0), min(d + ½, N)] (a cell is 1 wide,
+ *    so this is the cell mean with the part outside the absorber counted as zero);
+ *  - 'offset': the profile starts half a cell before the interface node, every
+ *    node at depth d ≥ −½ sampled at u = min((d + ½)/N, 1);
+ *  - 'lagged': one profile array for both fields: the E node at depth d at
+ *    u = d/N, and the H node at depth d + ½ takes the E node's value at depth d.
+ */
+export type SamplingConvention = 'node' | 'average' | 'offset' | 'lagged';
+
+/** Every sampling convention, in the order the documentation lists them. */
+export const SAMPLING_CONVENTIONS: readonly SamplingConvention[] = ['node', 'average', 'offset', 'lagged'];
 
 /** A graded CPML design in grid units. */
 export interface AbsorberDesign {
@@ -28,6 +46,8 @@ export interface AbsorberDesign {
   grading?: GradingKind;
   /** Ratio g per cell of geometric grading σ(x) = σ₀·g^{x/Δ}. Default 2.2. */
   geometricRatio?: number;
+  /** How the profiles are sampled onto the nodes (see SamplingConvention). Default 'node'. */
+  sampling?: SamplingConvention;
 }
 
 /** A design with every optional field filled in and checked. */
@@ -40,6 +60,7 @@ export interface ResolvedDesign {
   alphaOrder: number;
   grading: GradingKind;
   geometricRatio: number;
+  sampling: SamplingConvention;
 }
 
 /**
@@ -79,8 +100,21 @@ export function resolveDesign(design: AbsorberDesign): ResolvedDesign {
     throw new HushInputError('grading', `grading must be "polynomial" or "geometric" (got ${JSON.stringify(grading)})`, 'value');
   }
   const geometricRatio = inRange('geometric ratio', design.geometricRatio ?? 2.2, 1, 10, { loOpen: true });
+  const sampling = checkSampling(design.sampling ?? 'node');
   finite('layers', layers);
-  return { layers, order, strength, kappaMax, alphaMaxNorm, alphaOrder, grading, geometricRatio };
+  return { layers, order, strength, kappaMax, alphaMaxNorm, alphaOrder, grading, geometricRatio, sampling };
+}
+
+/** Checks a sampling convention name. */
+export function checkSampling(sampling: unknown): SamplingConvention {
+  if (typeof sampling !== 'string' || !(SAMPLING_CONVENTIONS as readonly string[]).includes(sampling)) {
+    throw new HushInputError(
+      'sampling',
+      `sampling must be one of ${SAMPLING_CONVENTIONS.map((c) => `"${c}"`).join(', ')} (got ${quote(sampling)})`,
+      'value',
+    );
+  }
+  return sampling as SamplingConvention;
 }
 
 /**
@@ -102,6 +136,38 @@ export function profileAt(d: ResolvedDesign, u: number, out: Float64Array): void
   out[0] = sigma;
   out[1] = 1 + (d.kappaMax - 1) * (d.grading === 'geometric' ? u : Math.pow(u, d.order));
   out[2] = d.alphaMaxNorm * Math.pow(1 - u, d.alphaOrder);
+}
+
+/**
+ * Integrals of the profiles over the depth interval [x0, x1] (in cells,
+ * 0 ≤ x0 ≤ x1 ≤ N), in closed form: writes ∫σ_norm dx, ∫(κ − 1) dx and
+ * ∫α_norm dx into out[0…2]. The 'average' sampling divides by the cell width 1.
+ *   polynomial: ∫(x/N)^m dx = N/(m + 1)·[(x/N)^{m+1}];
+ *   geometric:  ∫σ₀g^x dx = σ₀·[g^x]/ln g, κ linear in x/N;
+ *   α:          ∫(1 − x/N)^{m_a} dx = −N/(m_a + 1)·[(1 − x/N)^{m_a+1}].
+ */
+export function profileIntegral(d: ResolvedDesign, x0: number, x1: number, out: Float64Array): void {
+  const N = d.layers;
+  const u0 = x0 / N;
+  const u1 = x1 / N;
+  let sigma: number;
+  let kappa1: number;
+  if (d.grading === 'geometric') {
+    const g = d.geometricRatio;
+    const lg = Math.log(g);
+    const sigma0 = (0.8 * d.strength * N * lg) / (Math.pow(g, N) - 1);
+    sigma = (sigma0 * (Math.pow(g, x1) - Math.pow(g, x0))) / lg;
+    kappa1 = ((d.kappaMax - 1) * (x1 * x1 - x0 * x0)) / (2 * N);
+  } else {
+    const m = d.order;
+    const poly = (N * (Math.pow(u1, m + 1) - Math.pow(u0, m + 1))) / (m + 1);
+    sigma = d.strength * sigmaOptNormUnchecked(m) * poly;
+    kappa1 = (d.kappaMax - 1) * poly;
+  }
+  const ma = d.alphaOrder;
+  out[0] = sigma;
+  out[1] = kappa1;
+  out[2] = (d.alphaMaxNorm * N * (Math.pow(1 - u0, ma + 1) - Math.pow(1 - u1, ma + 1))) / (ma + 1);
 }
 
 /** Polynomial σ(u)/σ_max = u^m at depth u = depth/N ∈ [0, 1], order 0 ≤ m ≤ MAX_ORDER; exported for plots and tests. */

@@ -8,19 +8,30 @@
 export * from './errors';
 export * from './constants';
 export * from './courant';
-export { MAX_PPW, minimumResolvablePpw, checkPpw, discreteWavenumber, numericalPhaseVelocity, discreteAngle } from './dispersion';
+export { MAX_PPW, minimumResolvablePpw, checkPpw, discreteWavenumber, discreteWavenumber3D, numericalPhaseVelocity, discreteAngle } from './dispersion';
 export type * from './dispersion';
-export { sigmaOptNorm, sigmaOpt, resolveDesign, polynomialProfile, reversedPolynomialProfile } from './grading';
+export { SAMPLING_CONVENTIONS, checkSampling, sigmaOptNorm, sigmaOpt, resolveDesign, polynomialProfile, reversedPolynomialProfile } from './grading';
 export type * from './grading';
 export { cpmlCoefficients } from './cpml';
 export type * from './cpml';
 export { continuousReflection } from './continuous';
 export type * from './continuous';
-export { reflection, reflectionAtWavenumber } from './reflection';
+export { MAX_DECAY_CELLS, reflection, reflectionAtWavenumber, reflectionAtTransverseFactor } from './reflection';
 export type * from './reflection';
 export * from './budget';
 export * from './ripple';
-export { MAX_DESIGN_ANGLE_DEG, designWork, designOptions, designAbsorber, clearDesignCache, textbookStrength } from './design';
+export {
+  MAX_DESIGN_ANGLE_DEG,
+  MAX_AZIMUTH_DEG,
+  ALL_SAMPLINGS,
+  KAPPA_CANDIDATES,
+  ALPHA_FRACTIONS,
+  designWork,
+  designOptions,
+  designAbsorber,
+  clearDesignCache,
+  textbookStrength,
+} from './design';
 export type * from './design';
 export { FACE_NAMES, MAX_AXIS_CELLS, domainCounts } from './domain';
 export type * from './domain';
@@ -60,10 +71,16 @@ export {
   MAX_CELL_UPDATES,
   createMeasurement1D,
   createMeasurement2D,
+  createMeasurementMode,
+  MAX_PIECES,
+  planMeasurementPieces,
   runInChunks,
   measureReflection1D,
   measureReflection2D,
   measureReflection1DSync,
   measureReflection2DSync,
+  measureReflectionMode,
+  measureReflectionModeSync,
 } from './fdtd/measure';
+export { ModeLine } from './fdtd/mode-line';
 export type * from './fdtd';

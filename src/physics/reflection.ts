@@ -14,12 +14,12 @@
  */
 import { allocateCoefficients, fillCoefficients, type CpmlCoefficients } from './cpml';
 import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
-import { DEFAULT_COURANT, checkCourant, checkCourantMedium } from './courant';
-import { checkPpw, checkWaveStep, discreteWavenumberUnchecked } from './dispersion';
-import { continuousReflectionUnchecked } from './continuous';
+import { checkCourant, checkCourantMedium, defaultCourant } from './courant';
+import { checkPpw, checkWaveStep, evanescentFactorUnchecked, transverseFactorUnchecked } from './dispersion';
+import { continuousEvanescentUnchecked, continuousReflectionUnchecked } from './continuous';
 import { HushInputError } from './errors';
 import { MAX_LAYERS } from './constants';
-import { inRange } from './validate';
+import { inRange, wholeInRange } from './validate';
 
 const DEG = Math.PI / 180;
 const RESCALE = 1e150;
@@ -73,8 +73,11 @@ export type ComplexOut = Float64Array;
 /**
  * The kernel: reflection r at depth 0 for node factors `f` (from `fillFactors`
  * at the same ωΔt), layers N, medium Courant number S_m, phase step ωΔt and
- * transverse Yee factor sin²(k_t/2). Writes [Re r, Im r] into `out`.
- * Throws nothing; the caller guarantees a propagating wave.
+ * transverse Yee factor sin²(k_t/2) (in 3-D the sum sin²(k_y/2) + sin²(k_z/2)).
+ * Writes [Re r, Im r] into `out`. A transverse factor above sin²(ωΔt/2)/S_m²
+ * makes the wave evanescent along x; the split then uses the decaying and
+ * growing solutions e^{∓i/L} (physics.md §6). Throws nothing; the caller
+ * keeps the factor off the grazing point where the two solutions coincide.
  */
 export function reflectionKernel(
   f: NodeFactors,
@@ -127,6 +130,22 @@ export function reflectionKernel(
   const e1Im = eIm - omega * hRe;
   // Lossless 1-D dispersion: sin²(k̃_x/2) = sin²(ωΔt/2)/S_m² − sin²(k_t/2).
   const x = (sh * sh) / (courantMedium * courantMedium) - sinHalfKt2;
+  if (x < 0) {
+    // Evanescent along x (physics.md §6): k̃_x = −j/L with sinh²(1/(2L)) = −x, so the
+    // lossless field is A·e^{−i/L} + B·e^{+i/L} and e^{±jk̃_x} = e^{±1/L} are real.
+    // r = B/A = (E_0·e^{1/L} − E_{−1}) / (E_{−1} − E_0·e^{−1/L}).
+    const q = 2 * Math.asinh(Math.sqrt(-x));
+    const up = Math.exp(q);
+    const down = 1 / up;
+    const nRe = eRe * up - e1Re;
+    const nIm = eIm * up - e1Im;
+    const dRe = e1Re - eRe * down;
+    const dIm = e1Im - eIm * down;
+    const dd = dRe * dRe + dIm * dIm;
+    out[0] = (nRe * dRe + nIm * dIm) / dd;
+    out[1] = (nIm * dRe - nRe * dIm) / dd;
+    return out;
+  }
   const kx = 2 * Math.asin(Math.sqrt(x));
   const ck = Math.cos(kx);
   const sk = Math.sin(kx);
@@ -145,24 +164,42 @@ export function reflectionKernel(
 export interface WaveSpec {
   /** Cells per wavelength in the background medium. */
   ppw: number;
-  /** Vacuum Courant number cΔt/Δ; default 0.99 of the 3-D limit. */
+  /** Vacuum Courant number cΔt/Δ; default 0.99/√D for the grid's D dimensions. */
   courant?: number;
-  /** Grid dimensions for the Courant limit; default 3. */
+  /** Grid dimensions for the Courant limit and the transverse directions; default 3. */
   dimensions?: number;
   /** Background refractive index n ≥ 1; default 1. */
   index?: number;
-  /** Angle of incidence in degrees, 0 ≤ θ < 90; default 0. */
+  /** Angle of incidence in degrees from the face normal, 0 ≤ θ < 90; default 0. */
   angleDeg?: number;
+  /**
+   * Azimuth φ of the plane of incidence about the face normal, degrees, 0 ≤ φ ≤ 360 (3-D only;
+   * default 0, a plane containing a grid axis). The transverse wavevector is |k̃|·sin θ·(cos φ, sin φ).
+   */
+  azimuthDeg?: number;
+  /**
+   * Decay length L > 0 in cells of an evanescent (near) field e^{−d/L} along the
+   * face normal, at the frequency of `ppw` (physics.md §6); exclusive with a
+   * nonzero angle. Needs a 2-D or 3-D grid. |r| is referenced at the interface
+   * node; no energy argument bounds it by 1 (an evanescent field carries no
+   * power into the absorber), so results above 1 are allowed, though a scan of
+   * 15,552 passive designs (sampling, σ, κ, α, 0.6–20 cells of decay) found
+   * none above 1 (largest 0.9999999).
+   */
+  decayCells?: number;
 }
 
 export interface ReflectionResult {
-  /** |r|, the amplitude reflection. */
+  /** |r|, the amplitude reflection (for a near field not bounded by 1 in principle). */
   amplitude: number;
   /** arg r in degrees, at the interface (depth 0). */
   phaseDeg: number;
   re: number;
   im: number;
-  /** Continuous-theory amplitude reflection of the same design. */
+  /**
+   * Continuous-theory amplitude reflection of the same design: exp(−2cosθ∫σ…) for a
+   * propagating wave; exp(−(2/L)∫Re s dx) with s = κ + σ/(α + jω) for a near field.
+   */
   continuous: number;
 }
 
@@ -171,30 +208,74 @@ export interface ResolvedWave {
   ppw: number;
   courant: number;
   courantMedium: number;
+  dimensions: number;
   index: number;
   angleDeg: number;
+  azimuthDeg: number;
+  /** Decay length of a near field in cells; 0 for a propagating wave. */
+  decayCells: number;
   omegaDt: number;
+  /** Transverse Yee factor: sin²(k_t/2), or sin²(k_y/2) + sin²(k_z/2) in 3-D. */
   sinHalfKt2: number;
 }
 
-/** Checks a wave description and derives ωΔt and sin²(k_t/2). */
+/** Largest decay length accepted, in cells (a longer one is a propagating wave at grazing incidence for any purpose). */
+export const MAX_DECAY_CELLS = 1e6;
+
+/**
+ * Transverse factor of a near field of decay length L (cells) at ωΔt, checked
+ * against what a D-dimensional grid carries: K_t²/4 ≤ D − 1 (a real transverse
+ * wavenumber per transverse axis, each |k| ≤ π). Throws a HushInputError that
+ * states the shortest decay the grid carries at this frequency.
+ */
+export function checkedEvanescentFactor(field: string, decayCells: number, omegaDt: number, courantMedium: number, dimensions: number, ppw: number): number {
+  if (dimensions === 1) {
+    throw new HushInputError(field, `a 1-D grid has no transverse direction, so no evanescent field (got a decay length of ${decayCells} cells)`);
+  }
+  const f = evanescentFactorUnchecked(omegaDt, courantMedium, decayCells);
+  if (f > dimensions - 1) {
+    const st = Math.sin(omegaDt / 2) / courantMedium;
+    const shortest = 1 / (2 * Math.asinh(Math.sqrt(dimensions - 1 - st * st)));
+    throw new HushInputError(
+      field,
+      `a near field decaying over ${decayCells} cells at ${ppw} cells per wavelength needs a transverse wavenumber no ${dimensions}-D grid carries (K_t²/4 = ${f.toPrecision(4)} > ${dimensions - 1}); the shortest decay this grid carries at that frequency is ${shortest.toPrecision(4)} cells`,
+    );
+  }
+  return f;
+}
+
+/** Checks a wave description and derives ωΔt and the transverse factor. */
 export function resolveWave(wave: WaveSpec): ResolvedWave {
   if (wave === null || typeof wave !== 'object') {
     throw new HushInputError('wave', 'wave must be an object with at least ppw', 'value');
   }
-  const dims = wave.dimensions ?? 3;
-  const courant = checkCourant(wave.courant ?? DEFAULT_COURANT, dims);
+  const dims = wholeInRange('dimensions', wave.dimensions ?? 3, 1, 3);
+  const courant = checkCourant(wave.courant ?? defaultCourant(dims), dims);
   const index = inRange('background index', wave.index ?? 1, 1, 100);
   const angleDeg = inRange('angle', wave.angleDeg ?? 0, 0, 90, { hiOpen: true, unit: 'degrees' });
+  const azimuthDeg = inRange('azimuth', wave.azimuthDeg ?? 0, 0, 360, { unit: 'degrees' });
   if (dims === 1 && angleDeg !== 0) {
     throw new HushInputError('angle', `a 1-D grid has normal incidence only (got angle ${angleDeg} degrees)`);
+  }
+  if (dims < 3 && azimuthDeg !== 0) {
+    throw new HushInputError('azimuth', `a ${dims}-D grid has one plane of incidence only: the azimuth needs a 3-D grid (got ${azimuthDeg} degrees)`);
+  }
+  const decayGiven = wave.decayCells !== undefined;
+  const decayCells = decayGiven ? inRange('decay length', wave.decayCells, 0, MAX_DECAY_CELLS, { loOpen: true, unit: 'cells' }) : 0;
+  if (decayGiven && (angleDeg !== 0 || azimuthDeg !== 0)) {
+    throw new HushInputError(
+      'decay length',
+      `give either a decay length (an evanescent near field) or an angle of incidence (a propagating wave), not both (got decay ${decayCells} cells and angle ${angleDeg}°${azimuthDeg ? `, azimuth ${azimuthDeg}°` : ''})`,
+      'value',
+    );
   }
   const courantMedium = courant / index;
   const ppw = checkPpw('cells per wavelength', wave.ppw, courantMedium, angleDeg);
   const omegaDt = (2 * Math.PI * courantMedium) / ppw;
-  const q = discreteWavenumberUnchecked(ppw, courantMedium, angleDeg);
-  const sk = Math.sin((q * Math.sin(angleDeg * DEG)) / 2);
-  return { ppw, courant, courantMedium, index, angleDeg, omegaDt, sinHalfKt2: sk * sk };
+  const sinHalfKt2 = decayGiven
+    ? checkedEvanescentFactor('decay length', decayCells, omegaDt, courantMedium, dims, ppw)
+    : transverseFactorUnchecked(ppw, courantMedium, angleDeg, azimuthDeg);
+  return { ppw, courant, courantMedium, dimensions: dims, index, angleDeg, azimuthDeg, decayCells, omegaDt, sinHalfKt2 };
 }
 
 /** Scratch state for repeated evaluation; one per thread of work. */
@@ -222,7 +303,7 @@ export function reflectionResolved(d: ResolvedDesign, w: ResolvedWave, ws: Refle
     phaseDeg: Math.atan2(im, re) / DEG,
     re,
     im,
-    continuous: continuousReflectionUnchecked(d, w.ppw, w.angleDeg),
+    continuous: w.decayCells > 0 ? continuousEvanescentUnchecked(d, w.ppw, w.decayCells) : continuousReflectionUnchecked(d, w.ppw, w.angleDeg),
   };
 }
 
@@ -241,6 +322,8 @@ export function reflection(design: AbsorberDesign, wave: WaveSpec): ReflectionRe
  * wavenumber k_t (radians per cell), as a periodic time-domain grid defines it.
  * Checks 0 < ωΔt ≤ π, |k_t| ≤ π, and the Courant number in the medium against
  * the 1-D limit (k_t = 0) or the 2-D limit 1/√2 (k_t ≠ 0 needs a second axis).
+ * A k_t beyond the frequency's grazing point gives the near field's reflection
+ * (evanescent along x, physics.md §6); the grazing point itself is refused.
  */
 export function reflectionAtWavenumber(
   design: AbsorberDesign,
@@ -248,16 +331,33 @@ export function reflectionAtWavenumber(
   kt: number,
   courantMedium: number,
 ): { re: number; im: number; amplitude: number } {
-  const d = resolveDesign(design);
   checkWaveStep(omegaDt, kt);
-  courantMedium = checkCourantMedium(courantMedium, kt === 0 ? 1 : 2);
   const sk = Math.sin(kt / 2);
+  return reflectionAtTransverseFactor(design, omegaDt, sk * sk, checkCourantMedium(courantMedium, kt === 0 ? 1 : 2));
+}
+
+/**
+ * Reflection for a wave given by its phase step ωΔt and transverse factor
+ * K_t²/4 (sin²(k_t/2) in 2-D, sin²(k_y/2) + sin²(k_z/2) in 3-D), 0 ≤ K_t²/4 ≤ 2.
+ * The grazing point (k̃_x = 0) and waves beyond the grid's upper cut-off
+ * (sin²(k̃_x/2) > 1) are refused. Used by the time-domain measurements.
+ */
+export function reflectionAtTransverseFactor(
+  design: AbsorberDesign,
+  omegaDt: number,
+  transverseFactor: number,
+  courantMedium: number,
+): { re: number; im: number; amplitude: number } {
+  const d = resolveDesign(design);
+  inRange('phase step ωΔt', omegaDt, 0, Math.PI, { loOpen: true, unit: 'radians per step' });
+  const f = inRange('transverse factor', transverseFactor, 0, 2);
+  courantMedium = checkCourantMedium(courantMedium, f === 0 ? 1 : 2);
   const st = Math.sin(omegaDt / 2) / courantMedium;
-  if (!(st * st - sk * sk > 0 && st * st - sk * sk <= 1)) {
-    throw new HushInputError('transverse wavenumber', 'the wave is evanescent along the normal at this frequency');
-  }
+  const x = st * st - f;
+  if (x === 0) throw new HushInputError('transverse wavenumber', 'the wave is at grazing incidence (k̃_x = 0): incident and reflected waves coincide');
+  if (x > 1) throw new HushInputError('phase step ωΔt', 'the wave is beyond the grid\'s upper cut-off along the normal (sin²(k̃_x/2) > 1)');
   fillCoefficients(d, courantMedium, shared.coef);
   fillFactors(shared.coef, omegaDt, shared.factors);
-  reflectionKernel(shared.factors, d.layers, courantMedium, omegaDt, sk * sk, shared.out);
+  reflectionKernel(shared.factors, d.layers, courantMedium, omegaDt, f, shared.out);
   return { re: shared.out[0], im: shared.out[1], amplitude: Math.hypot(shared.out[0], shared.out[1]) };
 }

@@ -3,3 +3,4 @@ export * from './tmz';
 export * from './dtft';
 export * from './pulse';
 export * from './measure';
+export * from './mode-line';
