@@ -81,6 +81,13 @@ const designParams: ParamSpec[] = [
   ['kappa_max', 'any', true],
   ['alpha_max_norm', 'any', true],
 ];
+const velocityParams: ParamSpec[] = [
+  ['ppw', 'any', false],
+  ['courant', 'any', true],
+  ['dimensions', 'any', true],
+  ['angle', 'any', true],
+  ['azimuth', 'any', true],
+];
 const tableParams: ParamSpec[] = [
   ['header', 'any', false, 'matrix'],
   ['row', 'any', false, 'matrix'],
@@ -116,6 +123,8 @@ const expected: Record<string, { params: ParamSpec[]; result: string; matrix: bo
   STEPS: { params: tableParams, result: 'number', matrix: false },
   RUNTIME: { params: tableParams, result: 'number', matrix: false },
   COST: { params: tableParams, result: 'number', matrix: false },
+  PHASE_VELOCITY: { params: velocityParams, result: 'number', matrix: false },
+  GROUP_VELOCITY: { params: velocityParams, result: 'number', matrix: false },
 };
 
 function metadata(dir = out): FunctionMeta[] {

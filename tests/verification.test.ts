@@ -225,7 +225,7 @@ function measurePlan(p: Plan, wave: { angleDeg: number } | { decayCells: number 
 
 describe('the demo project (assets/demo-project.csv): every row\'s design, planned by planRow, confirmed in the time domain', () => {
   const plans = demoPlans();
-  it('has the 8 rows the pane shows', () => expect(plans.length).toBe(8));
+  it('has the 9 rows the pane shows', () => expect(plans.length).toBe(9));
   for (const p of plans) {
     const i = p.inputs;
     it(`${i.study}: at its largest angle (${i.angleMaxDeg}°) over its band (${p.grid.ppwShort.toPrecision(4)}–${p.grid.ppwLong.toPrecision(4)} cells/λ)`, () => {

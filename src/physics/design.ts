@@ -963,7 +963,10 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
         stepDown *= 2;
       }
       lo = Math.max(floor, hi - stepDown);
-      if (lo > floor && ok(lo)) (hi = lo), (lo = floor);
+      if (lo > floor && ok(lo)) {
+        hi = lo;
+        lo = floor;
+      }
     } else {
       lo = guess;
       let stepUp = Math.max(1, Math.ceil(guess * 0.25));
@@ -1023,9 +1026,15 @@ function resultOf(rs: ResolvedSpec, dense: DesignChecks, pass: Pass, choice: { k
   pass.refined.perGroup.forEach((p, k) => {
     const g = groups[k];
     if (g.evanescent) {
-      if (!ev || p.amplitude > ev.amplitude) (ev = p), (evGroup = k);
+      if (!ev || p.amplitude > ev.amplitude) {
+        ev = p;
+        evGroup = k;
+      }
     } else {
-      if (!prop || p.amplitude > prop.amplitude) (prop = p), (propGroup = k);
+      if (!prop || p.amplitude > prop.amplitude) {
+        prop = p;
+        propGroup = k;
+      }
       const m = mediumWorst[rs.absorberIndices.indexOf(g.index)];
       m.worstAmplitude = Math.max(m.worstAmplitude, p.amplitude);
     }
