@@ -66,8 +66,13 @@ export function suggestedAlphaMax(plan: Plan): number {
 }
 
 /** The CFS α values (S/m) to compare for this study: the study's own, and the other choice when it matters. */
+/** The CFS α (S/m) of a plan's design: typed by the user, or chosen by the design for a near field. */
+export function designAlphaMax(plan: Plan): number {
+  return conductivityFromNorm(plan.design.alphaMaxNorm, plan.accuracy.cell, plan.inputs.index);
+}
+
 export function alphaChoices(plan: Plan): number[] {
-  const own = plan.inputs.alphaMax;
+  const own = designAlphaMax(plan);
   if (own > 0) return [own, 0];
   return plan.grid.ppwLong >= CFS_RELEVANT_PPW ? [0, suggestedAlphaMax(plan)] : [0];
 }
@@ -91,7 +96,7 @@ export function optionPlans(study: Plan): OptionPlan[] {
   const out: OptionPlan[] = [];
   for (const alphaMax of alphaChoices(study)) {
     for (const order of study.inputs.orders) {
-      const inputs: PlanInputs = { ...study.inputs, orders: [order], alphaMax };
+      const inputs: PlanInputs = { ...study.inputs, orders: [order], alphaMax, alphaMaxGiven: true };
       let plan: Plan | null = null;
       let error: string | null = null;
       try {
@@ -99,7 +104,7 @@ export function optionPlans(study: Plan): OptionPlan[] {
       } catch (e) {
         error = e instanceof Error ? e.message : String(e);
       }
-      const recommended = alphaMax === study.inputs.alphaMax && order === study.design.order;
+      const recommended = alphaMax === designAlphaMax(study) && order === study.design.order;
       out.push({ order, alphaMax, plan: recommended ? study : plan, error: recommended ? null : error, recommended });
     }
   }

@@ -68,6 +68,9 @@ const reflectionParams: ParamSpec[] = [
   ['courant', 'any', true],
   ['index', 'any', true],
   ['dimensions', 'any', true],
+  ['sampling', 'any', true],
+  ['decay', 'any', true],
+  ['azimuth', 'any', true],
 ];
 const designParams: ParamSpec[] = [
   ['target', 'any', false],
@@ -80,6 +83,12 @@ const designParams: ParamSpec[] = [
   ['dimensions', 'any', true],
   ['kappa_max', 'any', true],
   ['alpha_max_norm', 'any', true],
+  ['sampling', 'any', true],
+  ['decay_min', 'any', true],
+  ['gap', 'any', true],
+  ['min_layers', 'any', true],
+  ['azimuth_max', 'any', true],
+  ['index_absorber', 'any', true],
 ];
 const velocityParams: ParamSpec[] = [
   ['ppw', 'any', false],

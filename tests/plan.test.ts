@@ -40,7 +40,7 @@ describe('planRow: budget → design → cost', () => {
     // Default Courant number in 1-D: 0.99 of the limit 1.
     expect(p.inputs.courant).toBe(0.99);
     // Design: the same as asking the design search directly (independent call).
-    const d = designAbsorber({ target: requiredAmplitude({ intensityError: 0.01 }), ppwMin: 31, ppwMax: 31, courant: 0.99, dimensions: 1, index: 1, orders: [2, 3, 4], kappaMax: 1, alphaMaxNorm: 0, angleMaxDeg: 0 });
+    const d = designAbsorber({ target: requiredAmplitude({ intensityError: 0.01 }), ppwMin: 31, ppwMax: 31, courant: 0.99, dimensions: 1, index: 1, orders: [2, 3, 4], kappaMax: 1, alphaMaxNorm: 0, angleMaxDeg: 0, gapCells: 31 });
     expect(p.design).toEqual(d);
     // Cells: 200 + 2·31 gap + 2·layers (hand count).
     expect(p.cost.domain.cellsTotal).toBe(262 + 2 * d.layers);

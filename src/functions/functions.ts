@@ -34,9 +34,11 @@ import {
   type PhaseModel,
   type MonitorKind,
   type WaveSpec,
+  type SamplingConvention,
 } from '../plan/steps';
 import { OUTPUT_NAMES, planRecord, planHeaderText, type Plan } from '../plan';
 import { arg, isOmitted, listArg, requiredArg, valuesArg } from './args';
+import type { Gap } from '../plan/fields';
 import { DESIGN_COLUMNS } from './columns';
 import { worksheet } from './errors';
 import { asWorksheet, designOf, planOf } from './plans';
@@ -121,6 +123,9 @@ function absorberAndWave(
   courant: unknown,
   index: unknown,
   dimensions: unknown,
+  sampling: unknown,
+  decay: unknown,
+  azimuth: unknown,
 ): { design: AbsorberDesign; wave: WaveSpec } {
   const design: AbsorberDesign = {
     layers: requiredArg<'count'>('layers', layers),
@@ -129,6 +134,7 @@ function absorberAndWave(
     kappaMax: arg<'number'>('kappa_max', kappa_max),
     alphaMaxNorm: arg<'number'>('alpha_max_norm', alpha_max_norm),
     alphaOrder: arg<'number'>('alpha_order', alpha_order),
+    sampling: oneConvention(arg<'choice'>('sampling', sampling)),
   };
   const dims = arg<'count'>('dimensions', dimensions) ?? 3;
   const wave: WaveSpec = {
@@ -137,8 +143,19 @@ function absorberAndWave(
     courant: arg<'number'>('courant', courant) ?? defaultCourant(dims),
     index: arg<'number'>('index', index),
     dimensions: dims,
+    azimuthDeg: arg<'angle'>('azimuth', azimuth),
+    decayCells: arg<'number'>('decay', decay),
   };
+  if (wave.decayCells !== undefined && (wave.angleDeg ?? 0) !== 0) {
+    throw new HushInputError('decay', 'give decay or a nonzero angle, not both: an evanescent field has no angle of incidence', 'value');
+  }
   return { design, wave };
+}
+
+/** One grid convention for a reflection ('all' is for designs). */
+function oneConvention(s: string | undefined): SamplingConvention | undefined {
+  if (s === 'all') throw new HushInputError('sampling', "sampling all is for designs (HUSH.LAYERS, HUSH.DESIGN): one reflection is computed under one convention (node, average, offset or lagged)", 'value');
+  return s as SamplingConvention | undefined;
 }
 
 /**
@@ -158,6 +175,9 @@ function absorberAndWave(
  * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
  * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [sampling] Your solver's grid convention for the absorber profiles: node (each node at its own depth), average (each node the mean over its cell), offset (the profile starts half a cell early), lagged (one array for E and H), all (a design that holds under node, average and offset): one of node, average, offset, lagged, all (any letter case). Default node.
+ * @param [decay] Decay length L in cells of an evanescent incident field e^(−d/L) normal to the face (instead of an angle): a number; > 0, ≤ 1000000. Default none (a propagating wave).
+ * @param [azimuth] Azimuth of the direction about the x axis (3-D grids): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ -360°, ≤ 360°. Default 0.
  * @returns Amplitude reflection |r| (not the power reflection |r|²).
  */
 export function reflectionExact(
@@ -172,9 +192,12 @@ export function reflectionExact(
   courant?: any,
   index?: any,
   dimensions?: any,
+  sampling?: any,
+  decay?: any,
+  azimuth?: any,
 ): number {
   return worksheet(() => {
-    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions, sampling, decay, azimuth);
     return reflection(design, wave).amplitude;
   });
 }
@@ -194,6 +217,9 @@ export function reflectionExact(
  * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
  * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [sampling] Your solver's grid convention for the absorber profiles: node (each node at its own depth), average (each node the mean over its cell), offset (the profile starts half a cell early), lagged (one array for E and H), all (a design that holds under node, average and offset): one of node, average, offset, lagged, all (any letter case). Default node.
+ * @param [decay] Decay length L in cells of an evanescent incident field e^(−d/L) normal to the face (instead of an angle): a number; > 0, ≤ 1000000. Default none (a propagating wave).
+ * @param [azimuth] Azimuth of the direction about the x axis (3-D grids): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ -360°, ≤ 360°. Default 0.
  * @returns Amplitude reflection |r| of continuous theory.
  */
 export function reflectionContinuous(
@@ -208,9 +234,12 @@ export function reflectionContinuous(
   courant?: any,
   index?: any,
   dimensions?: any,
+  sampling?: any,
+  decay?: any,
+  azimuth?: any,
 ): number {
   return worksheet(() => {
-    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+    const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions, sampling, decay, azimuth);
     return reflection(design, wave).continuous;
   });
 }
@@ -233,6 +262,9 @@ const TABLE_SIDE_MAX = 500;
  * @param [courant] Vacuum Courant number S = cΔt/Δ (at most 1/√dimensions): a number; ≥ 0.0001, ≤ 1. Default 0.99/√dimensions.
  * @param [index] Background refractive index at the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
+ * @param [sampling] Your solver's grid convention for the absorber profiles: node (each node at its own depth), average (each node the mean over its cell), offset (the profile starts half a cell early), lagged (one array for E and H), all (a design that holds under node, average and offset): one of node, average, offset, lagged, all (any letter case). Default node.
+ * @param [decay] Decay length L in cells of an evanescent incident field e^(−d/L) normal to the face (instead of an angle): a number; > 0, ≤ 1000000. Default none (a propagating wave).
+ * @param [azimuth] Azimuth of the direction about the x axis (3-D grids): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ -360°, ≤ 360°. Default 0.
  * @returns Amplitude reflection |r|, rows by cells per wavelength, columns by angle.
  */
 export function reflectionTable(
@@ -247,13 +279,16 @@ export function reflectionTable(
   courant?: any,
   index?: any,
   dimensions?: any,
+  sampling?: any,
+  decay?: any,
+  azimuth?: any,
 ): number[][] {
   return worksheet(() => {
     const ppws = valuesArg<'number'>('ppw_list', 'ppw', ppw_list, TABLE_SIDE_MAX);
     const angleList = isOmitted(angles) ? [0] : valuesArg<'angle'>('angles', 'angle', angles, TABLE_SIDE_MAX);
     return ppws.map((ppw) =>
       angleList.map((angle) => {
-        const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions);
+        const { design, wave } = absorberAndWave(layers, order, ppw, angle, strength, kappa_max, alpha_max_norm, alpha_order, courant, index, dimensions, sampling, decay, azimuth);
         return reflection(design, wave).amplitude;
       }),
     );
@@ -379,11 +414,19 @@ function designSpec(
   dimensions: unknown,
   kappa_max: unknown,
   alpha_max_norm: unknown,
+  sampling: unknown,
+  decay_min: unknown,
+  gap: unknown,
+  min_layers: unknown,
+  azimuth_max: unknown,
+  index_absorber: unknown,
 ): DesignSpec {
+  const ppwMin = requiredArg<'number'>('ppw_min', ppw_min);
+  const ppwMax = arg<'number'>('ppw_max', ppw_max);
   return {
     target: requiredArg<'reflection'>('target', target),
-    ppwMin: requiredArg<'number'>('ppw_min', ppw_min),
-    ppwMax: arg<'number'>('ppw_max', ppw_max),
+    ppwMin,
+    ppwMax,
     angleMaxDeg: arg<'angle'>('angle_max', angle_max),
     orders: listArg<'numbers'>('orders', orders),
     courant: arg<'number'>('courant', courant) ?? defaultCourant(arg<'count'>('dimensions', dimensions) ?? 3),
@@ -391,7 +434,21 @@ function designSpec(
     dimensions: arg<'count'>('dimensions', dimensions),
     kappaMax: arg<'number'>('kappa_max', kappa_max),
     alphaMaxNorm: arg<'number'>('alpha_max_norm', alpha_max_norm),
+    sampling: arg<'choice'>('sampling', sampling) as SamplingConvention | 'all' | undefined,
+    decayMinCells: gapCells('decay_min', arg<'gap'>('decay_min', decay_min), ppwMin),
+    gapCells: gapCells('gap', arg<'gap'>('gap', gap), ppwMax ?? ppwMin),
+    minLayers: arg<'count'>('min_layers', min_layers),
+    azimuthMaxDeg: arg<'angle'>('azimuth_max', azimuth_max),
+    absorberIndices: listArg<'numbers'>('index_absorber', index_absorber),
   };
+}
+
+/** Cells of a gap-like argument: cells, or wavelengths at `ppw` cells per wavelength (a length needs a cell size a design spec has not). */
+function gapCells(name: string, g: Gap | undefined, ppw: number): number | undefined {
+  if (g === undefined) return undefined;
+  if ('cells' in g) return g.cells;
+  if ('wavelengths' in g) return g.wavelengths * ppw;
+  throw new HushInputError(name, `${name} as a length needs a cell size: give it in cells or in wavelengths`, 'value');
 }
 
 /**
@@ -410,6 +467,12 @@ function designSpec(
  * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
  * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
+ * @param [sampling] Your solver's grid convention for the absorber profiles: node (each node at its own depth), average (each node the mean over its cell), offset (the profile starts half a cell early), lagged (one array for E and H), all (a design that holds under node, average and offset): one of node, average, offset, lagged, all (any letter case). Default node.
+ * @param [decay_min] Shortest decay length of the structure's evanescent near fields at the band's short end: cells, wavelengths or a length: cells (a bare number), wavelengths ("0.5 wavelengths") or a length. Default from index_max and index: λ_short/(2π√(index_max² − index²)); none without a denser material; 'none' to switch the check off.
+ * @param [gap] Structure-to-absorber gap: cells, "0.5 wavelengths" or a length: cells (a bare number), wavelengths ("0.5 wavelengths") or a length. Default blank: the structure size includes its clearance.
+ * @param [min_layers] Fewest absorber layers a design may have (a floor set by policy): a whole number; ≥ 1, ≤ 200. Default 1.
+ * @param [azimuth_max] Largest azimuth of the plane of incidence about the face normal (3-D; 0–45° covers every direction by symmetry): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, ≤ 45°. Default 45 in 3-D, 0 in 2-D.
+ * @param [index_absorber] Indices of every medium that crosses the absorber (a guide or substrate as well as the background): numbers separated by commas or spaces; ≥ 1, ≤ 100. Default index.
  * @returns Layer count N (cells).
  */
 export function layers(
@@ -423,9 +486,15 @@ export function layers(
   dimensions?: any,
   kappa_max?: any,
   alpha_max_norm?: any,
+  sampling?: any,
+  decay_min?: any,
+  gap?: any,
+  min_layers?: any,
+  azimuth_max?: any,
+  index_absorber?: any,
 ): Promise<number> {
   return asWorksheet(
-    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm, sampling, decay_min, gap, min_layers, azimuth_max, index_absorber)),
     (d: DesignResult) => d.layers,
   );
 }
@@ -444,6 +513,12 @@ export function layers(
  * @param [dimensions] Grid dimensions (1, 2 or 3): a whole number; ≥ 1, ≤ 3. Default 3.
  * @param [kappa_max] κ at the back of the absorber: a number; ≥ 1, ≤ 100. Default 1.
  * @param [alpha_max_norm] CFS shift α_max·η₀·Δ·n (dimensionless): a number; ≥ 0, ≤ 10. Default 0.
+ * @param [sampling] Your solver's grid convention for the absorber profiles: node (each node at its own depth), average (each node the mean over its cell), offset (the profile starts half a cell early), lagged (one array for E and H), all (a design that holds under node, average and offset): one of node, average, offset, lagged, all (any letter case). Default node.
+ * @param [decay_min] Shortest decay length of the structure's evanescent near fields at the band's short end: cells, wavelengths or a length: cells (a bare number), wavelengths ("0.5 wavelengths") or a length. Default from index_max and index: λ_short/(2π√(index_max² − index²)); none without a denser material; 'none' to switch the check off.
+ * @param [gap] Structure-to-absorber gap: cells, "0.5 wavelengths" or a length: cells (a bare number), wavelengths ("0.5 wavelengths") or a length. Default blank: the structure size includes its clearance.
+ * @param [min_layers] Fewest absorber layers a design may have (a floor set by policy): a whole number; ≥ 1, ≤ 200. Default 1.
+ * @param [azimuth_max] Largest azimuth of the plane of incidence about the face normal (3-D; 0–45° covers every direction by symmetry): an angle such as 30 deg, 30° or 0.5 rad; a bare number is in deg; ≥ 0°, ≤ 45°. Default 45 in 3-D, 0 in 2-D.
+ * @param [index_absorber] Indices of every medium that crosses the absorber (a guide or substrate as well as the background): numbers separated by commas or spaces; ≥ 1, ≤ 100. Default index.
  * @returns One row in the order of HUSH.DESIGN_HEADER().
  */
 export function design(
@@ -457,9 +532,15 @@ export function design(
   dimensions?: any,
   kappa_max?: any,
   alpha_max_norm?: any,
+  sampling?: any,
+  decay_min?: any,
+  gap?: any,
+  min_layers?: any,
+  azimuth_max?: any,
+  index_absorber?: any,
 ): Promise<number[][]> {
   return asWorksheet(
-    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm)),
+    () => designOf(designSpec(target, ppw_min, ppw_max, angle_max, orders, courant, index, dimensions, kappa_max, alpha_max_norm, sampling, decay_min, gap, min_layers, azimuth_max, index_absorber)),
     (d: DesignResult) => [DESIGN_COLUMNS.map((c) => finiteCell(c.header, c.value(d)) as number)],
   );
 }
@@ -482,7 +563,7 @@ function planCells(plan: Plan): (number | string)[] {
 
 /**
  * Plans one study of a project table: required reflection, absorber design, grid, cells, memory, steps, runtime and cost, spilled as one row (headers: HUSH.PLAN_HEADER()). Runtime and cost are planning estimates from the row's throughput and price. Copy down a table: =HUSH.PLAN($A$1:$AM$1, A2:AM2).
- * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, -46.0422336566019, 0.00272946276263012, 0, 0, 0.00272946276263012, 2.5e-8, "", "", 3, 4, 0.609875173686855, 0.00136380140418004, -57.3049773347667, 0.0535360064500616, -25.4270805678709, 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.4266693059685e-13, 13484, 0.109274051337778, 0.0994750936977778, 0.00979895764, 0, 8.96732345880576, 0.273185128344444, 0.0244973941, 0, 0, "", 1, "accuracy split: absorber 0.273 %, dispersion 0 %, run 0 % (added: 0.273 % of 1 %)", "2.0.0"}
+ * Example: =HUSH.PLAN({"band_short", "cell", "size_x", "size_y", "size_z", "gap", "intensity_error", "passes", "throughput", "price_per_hour"}, {"1550 nm", "25 nm", "8 um", "8 um", "3 um", "0.5 wavelengths", "1%", 20, 1000000000, "$2.50/h"}) → {0.00498756211208903, -46.0422336566019, 0.00272946276263012, 0, 0, 0.00272946276263012, 2.5e-8, "", "", 3, 4, 0.609875173686855, 0.00136380140418004, -57.3049773347667, 0.0535360064500616, -25.4270805678709, 1, 0, "", 1, "node", 7.5e-8, 62, 62, 62, "388×388×188", 28302272, 1744104, 6.56710959882474, 7114368, 1.047339264, 0.028457472, 0.679254528, 0.339627264, 6, 3, 4, 4.76643717382977e-17, 6.4266693059685e-13, 13484, 0.109274051337778, 0.0994750936977778, 0.00979895764, 0, 8.96732345880576, 0.273185128344444, 0.0244973941, 0, 0, "", 1, "accuracy split: absorber 0.273 %, dispersion 0 %, run 0 % (added: 0.273 % of 1 %); thin absorber: 3 layers, fewer than the 8–10 of common practice; on this grid it reflects at most 0.00136 (continuous theory would say 0.0535), which meets the target; keep a thicker one if your solver's convention is not node", "2.0.0"}
  * @customfunction PLAN
  * @param header The project table's header row: field names such as band_short, cell, intensity_error (units in brackets and other columns are ignored), e.g. $A$1:$AM$1.
  * @param row This study's row of the same table, as many cells as the header, e.g. A2:AM2. Numbers take each field's default unit; text may carry units ("1550 nm", "3 ps", "$2/h").
@@ -497,7 +578,7 @@ export function plan(header: any[][], row: any[][]): Promise<any[][]> {
 
 /**
  * Header row for HUSH.PLAN, with units in brackets.
- * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "required_reflection_db [dB]", "error_absorber", "error_dispersion", "error_run", "error_total", "cell_planned [m]", "ppw_min [cells/λ]", "resonance_shift [linewidths]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "worst_reflection_db [dB]", "continuous_reflection [|r|]", "continuous_reflection_db [dB]", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "cost_absorber [currency]", "cost_refinement [currency]", "saving [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
+ * Example: =HUSH.PLAN_HEADER() → {"required_reflection [|r|]", "required_reflection_db [dB]", "error_absorber", "error_dispersion", "error_run", "error_total", "cell_planned [m]", "ppw_min [cells/λ]", "resonance_shift [linewidths]", "layers [cells]", "order", "strength [σmax/σopt]", "worst_reflection [|r|]", "worst_reflection_db [dB]", "continuous_reflection [|r|]", "continuous_reflection_db [dB]", "design_kappa_max", "design_alpha_max [S/m]", "worst_evanescent [|r|]", "limiting_index", "sampling_checked", "absorber_thickness [m]", "ppw_short [cells/λ]", "ppw_long [cells/λ]", "ppw_densest [cells/λ]", "grid [cells]", "cells_total [cells]", "cells_absorber [cells]", "overhead_percent [%]", "psi_total [values]", "memory [GB]", "memory_psi [GB]", "memory_fields [GB]", "memory_material [GB]", "field_values_per_cell [values]", "material_values_per_cell [values]", "bytes_per_value [B]", "time_step [s]", "simulated_time [s]", "steps", "runtime [h]", "runtime_interior [h]", "runtime_absorber [h]", "runtime_exchange [h]", "absorber_share [%]", "cost [currency]", "cost_absorber [currency]", "cost_refinement [currency]", "saving [currency]", "halo_per_step [MB]", "parallel_efficiency", "notes", "model_version"}
  * @customfunction PLAN_HEADER
  * @returns One row of column names.
  */

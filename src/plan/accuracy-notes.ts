@@ -11,6 +11,29 @@ export const SHIFT_NOTE_LINEWIDTHS = 0.1;
 const pct = (x: number) => `${Number((100 * x).toPrecision(3))} %`;
 const nm = (m: number) => `${Number((m * 1e9).toPrecision(4))} nm`;
 
+/** Fewer layers than this is thinner than common practice (about 8–10 layers, Taflove & Hagness 3rd ed. ch. 7 use 10). */
+export const COMMON_PRACTICE_LAYERS = 8;
+
+/** Notes on the design itself: thinner than common practice, the medium that limits it, the near field, κ/α chosen. */
+export function designNotes(i: PlanInputs, a: AccuracyPlan): string[] {
+  const d = a.design;
+  const notes: string[] = [];
+  const g = (x: number) => Number(x.toPrecision(3));
+  if (d.layers < COMMON_PRACTICE_LAYERS) {
+    notes.push(
+      `thin absorber: ${d.layers} layers, fewer than the ${COMMON_PRACTICE_LAYERS}–10 of common practice; on this grid it reflects at most ${g(d.worstAmplitude)} (continuous theory would say ${g(d.continuousAmplitude)}), which meets the target; keep a thicker one if your solver's convention is not ${d.samplingChecked === 'all' ? 'among node, average and offset' : d.samplingChecked}`,
+    );
+  }
+  if (d.mediumWorst.length > 1) notes.push(`media crossing the absorber: the design is limited by index ${d.limitingIndex} (worst |r| ${g(d.mediumWorst.find((m) => m.index === d.limitingIndex)?.worstAmplitude ?? d.worstAmplitude)})`);
+  if (d.worstEvanescent !== null) {
+    notes.push(
+      `near field: decay lengths from ${g(d.decayMinCells ?? 0)} cells${i.decayMinDerived ? ' (from index_max and index)' : ''}; worst evanescent reflection back at the structure ${g(d.worstEvanescent)} (${g(d.worstEvanescentBare ?? 0)} at the interface, across a gap of ${d.gapCells} cells)`,
+    );
+  }
+  if (d.kappaChosen || d.alphaChosen) notes.push(`κ_max ${g(d.kappaMax)}${d.kappaChosen ? ' (chosen)' : ''}; ${d.alphaReason}`);
+  return notes;
+}
+
 export function accuracyNotes(i: PlanInputs, a: AccuracyPlan): string[] {
   const notes: string[] = [];
   const e = a.errors;

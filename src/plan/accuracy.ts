@@ -74,8 +74,15 @@ export function designAt(i: PlanInputs, g: GridAt, target: number): DesignResult
     dimensions: i.dimensions,
     index: i.index,
     orders: i.orders,
-    kappaMax: i.kappaMax,
-    alphaMaxNorm: g.alphaMaxNorm,
+    // Fixed only when the user typed them; otherwise the design chooses κ_max and α_max where a near field asks for them.
+    kappaMax: i.kappaMaxGiven ? i.kappaMax : undefined,
+    alphaMaxNorm: i.alphaMaxGiven ? g.alphaMaxNorm : undefined,
+    sampling: i.sampling,
+    absorberIndices: i.absorberIndices,
+    azimuthMaxDeg: i.azimuthMaxDeg ?? undefined,
+    minLayers: i.minLayers,
+    decayMinCells: i.decayMin === null ? undefined : i.decayMin / g.cell,
+    gapCells: g.gapCells,
   });
 }
 

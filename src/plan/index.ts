@@ -17,7 +17,7 @@ import { MIN_INTENSITY_ERROR, requiredAmplitude } from '../physics/budget';
 import { type DesignResult } from '../physics/design';
 import { type CostResult } from '../physics/cost';
 import { budgetOptions, costAt, gridAt, planAccuracy, type AccuracyPlan } from './accuracy';
-import { accuracyNotes } from './accuracy-notes';
+import { accuracyNotes, designNotes } from './accuracy-notes';
 import { HushInputError } from '../physics/errors';
 import { OUTPUT_COLUMNS, OUTPUT_NAMES, errorRecord, outputHeaderText, planRecord, type OutputColumn, type PlanCell, type PlanRecord } from './fields';
 import { planInputs, type PlanInputs, type ProjectRow } from './row';
@@ -145,6 +145,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
   }
   warnings.push(...i.unusedNotes);
   warnings.push(...accuracyNotes(i, accuracy));
+  warnings.push(...designNotes(i, accuracy));
   if (cost.parallel.model === 'halo exchange' && cost.parallel.efficiency < 0.5) {
     warnings.push(`halo exchange dominates: parallel efficiency ${cost.parallel.efficiency.toFixed(2)} on ${i.nodes} nodes; fewer nodes or a block decomposition may be cheaper`);
   }

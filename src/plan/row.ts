@@ -16,6 +16,7 @@ import { DEFAULT_COURANT_FRACTION, DEFAULT_ORDERS } from '../physics/limits';
 import { canonical, type Gap } from './units';
 import type { MonitorKind } from '../physics/budget';
 import type { PathLength } from './fields/kinds';
+import type { SamplingConvention } from '../physics/grading';
 import { inputColumn, isBlank, readInput, type KindValue, type ReadOptions } from './fields';
 
 /** What a table cell holds. */
@@ -69,6 +70,17 @@ export interface PlanInputs {
   cellMin: number | null;
   /** True when ring_target was typed (the run is then fixed by it). */
   ringTargetGiven: boolean;
+  /** The user's solver's grid convention, or 'all' (a design that holds under node, average and offset). */
+  sampling: SamplingConvention | 'all';
+  /** Indices of the media crossing the absorber (default [index]). */
+  absorberIndices: number[];
+  /** Shortest decay length of the structure's near fields at the band's short end, m; null: no near-field check. */
+  decayMin: number | null;
+  /** True when decay_min was derived from index_max and index rather than typed. */
+  decayMinDerived: boolean;
+  /** Largest azimuth checked (3-D), degrees; null: the design's default (45 in 3-D). */
+  azimuthMaxDeg: number | null;
+  minLayers: number;
   duration: number | null;
   passes: number | null;
   q: number | null;
@@ -85,6 +97,9 @@ export interface PlanInputs {
   orders: number[];
   kappaMax: number;
   alphaMax: number;
+  /** True when kappa_max / alpha_max were typed: they stay fixed; otherwise the design may choose them for a near field. */
+  kappaMaxGiven: boolean;
+  alphaMaxGiven: boolean;
   absorberFactor: number;
   fieldsPerCell: number | null;
   materialPerCell: number | null;
@@ -264,8 +279,34 @@ export function planInputs(row: ProjectRow): PlanInputs {
   const bandwidth = read<'bandwidth'>('bandwidth') ?? null;
   const latency = read<'time'>('latency') ?? 0;
   const orders = read<'numbers'>('orders') ?? [...DEFAULT_ORDERS];
-  const kappaMax = read<'number'>('kappa_max') ?? 1;
-  const alphaMax = read<'conductivity'>('alpha_max') ?? 0;
+  const sampling = (read<'choice'>('sampling') ?? 'node') as SamplingConvention | 'all';
+  const absorberIndices = read<'numbers'>('index_absorber') ?? [index];
+  const decayText = row.decay_min;
+  const decayOff = typeof decayText === 'string' && decayText.trim().toLowerCase() === 'none';
+  const decayTyped = decayOff ? undefined : read<'gap'>('decay_min');
+  // Default: the evanescent tail outside a guide of index index_max in the background of index `index`, at the band's short end,
+  // where the field decays fastest (n_eff → index_max): e^{−d/L}, L = λ/(2π·√(n_max² − n²)) (slab-waveguide evanescent field;
+  // Saleh & Teich, Fundamentals of Photonics, planar dielectric waveguides).
+  // A 1-D grid has no transverse wavenumber, so no evanescent field can meet its absorber.
+  if (decayTyped !== undefined && dimensions === 1) throw new HushInputError('decay_min', 'decay_min needs a 2-D or 3-D study: a 1-D grid carries no evanescent field to its absorber', 'value');
+  const decayDerived = indexMax > index && dimensions > 1 ? wavelengthShort / (2 * Math.PI * Math.sqrt(indexMax * indexMax - index * index)) : null;
+  const decayMin = decayOff
+    ? null
+    : decayTyped === undefined
+      ? decayDerived
+      : 'cells' in decayTyped
+        ? decayTyped.cells * cell
+        : 'wavelengths' in decayTyped
+          ? (decayTyped.wavelengths * wavelengthShort) / index
+          : decayTyped.metres;
+  if (decayMin !== null && !(decayMin > 0)) throw new HushInputError('decay_min', `decay_min must be greater than 0 (got ${String(decayText).trim()})`);
+  const azimuthMaxDeg = read<'angle'>('azimuth_max') ?? null;
+  if (azimuthMaxDeg !== null && dimensions !== 3 && azimuthMaxDeg !== 0) throw new HushInputError('azimuth_max', `azimuth_max applies to 3-D grids only (the study is ${dimensions}-D)`, 'value');
+  const minLayers = read<'count'>('min_layers') ?? 1;
+  const kappaTyped = read<'number'>('kappa_max');
+  const alphaTyped = read<'conductivity'>('alpha_max');
+  const kappaMax = kappaTyped ?? 1;
+  const alphaMax = alphaTyped ?? 0;
   const absorberFactor = read<'number'>('absorber_factor') ?? DEFAULT_ABSORBER_FACTOR;
   const fieldsPerCell = read<'count'>('fields_per_cell') ?? null;
   const materialPerCell = read<'count'>('material_per_cell') ?? null;
@@ -286,8 +327,8 @@ export function planInputs(row: ProjectRow): PlanInputs {
   else if (efficiency !== null) unused(['bandwidth', 'latency'], 'the stated efficiency sets the parallel runtime (halo_per_step is still reported); clear efficiency to model the halo exchange');
   return {
     study, dimensions, wavelengthShort, wavelengthLong, index, indexMax, cell, courant, interiorCells, faces, gapCells, gapGiven, unusedNotes: notes,
-    angleMaxDeg, intensityError, coupling, facesSeen, phase, monitor, share, path, resonance, cellMin, ringTargetGiven: ringTargetTyped !== undefined, duration, passes, q, ringTarget, ringFrequency,
-    throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, absorberFactor,
+    angleMaxDeg, intensityError, coupling, facesSeen, phase, monitor, share, path, resonance, cellMin, ringTargetGiven: ringTargetTyped !== undefined, sampling, absorberIndices, decayMin, decayMinDerived: decayTyped === undefined && decayMin !== null, azimuthMaxDeg, minLayers, duration, passes, q, ringTarget, ringFrequency,
+    throughput, pricePerHour, precision, nodes, efficiency, decomposition, bandwidth, latency, orders, kappaMax, alphaMax, kappaMaxGiven: kappaTyped !== undefined, alphaMaxGiven: alphaTyped !== undefined, absorberFactor,
     fieldsPerCell, materialPerCell,
   };
 }

@@ -22,6 +22,8 @@ export {
   type DesignResult,
   type DesignSpec,
   type WaveSpec,
+  type SamplingConvention,
+  SAMPLING_CONVENTIONS,
   // cost (physics.md §5)
   runCost,
   type Precision,
@@ -52,6 +54,18 @@ import { HushInputError as InputError } from '../physics/errors';
 export { conductivityNorm, conductivityFromNorm, phaseStep } from '../physics/normalise';
 export { DEFAULT_COURANT_FRACTION, DEFAULT_ORDERS } from '../physics/limits';
 export { defaultCourant, gridVelocity, phaseVelocityRatio, groupVelocityRatio } from '../physics/velocity';
+
+/** What a figure of the exact model is exact for, in a few words ("the node convention: σ, κ, α sampled at each node's own depth"). */
+export function exactFor(sampling: string): string {
+  const what: Record<string, string> = {
+    node: "σ, κ, α sampled at each node's own depth",
+    average: "σ, κ, α averaged over each node's cell",
+    offset: 'the profile started half a cell before the interface',
+    lagged: 'one profile array for E and H',
+    all: 'node, average and offset alike: the worst of the three',
+  };
+  return sampling === 'all' ? `every grid convention checked (${what.all})` : `the ${sampling} convention (${what[sampling] ?? sampling})`;
+}
 
 /** α_norm = α·η₀·Δ·n of a conductivity in S/m (physics.md §3), refused when it overflows. */
 export function toNormalisedConductivity(field: string, sigma: number, cellMetres: number, index: number): number {

@@ -6,6 +6,7 @@
  * values from that record by name.
  */
 import { MODEL_VERSION } from '../../physics/constants';
+import { conductivityFromNorm } from '../../physics/normalise';
 import type { Plan } from '../index';
 
 /** A value of one output cell: a number, text, or nothing (the plan has no such figure). */
@@ -60,7 +61,12 @@ export const OUTPUTS: readonly OutputColumn[] = [
   col('worst_reflection_db', 'dB', FIX1, 'the same in dB', (p) => reflectionDb(p.design.worstAmplitude)),
   col('continuous_reflection', '|r|', SCI, 'continuous-theory reflection of the same design', (p) => p.design.continuousAmplitude),
   col('continuous_reflection_db', 'dB', FIX1, 'the same in dB', (p) => reflectionDb(p.design.continuousAmplitude)),
-  col('absorber_thickness', 'm', SCI, 'layers × cell', (p) => p.design.layers * p.inputs.cell),
+  col('design_kappa_max', '', '0.00', 'κ_max of the design (typed, or chosen for the near field)', (p) => p.design.kappaMax),
+  col('design_alpha_max', 'S/m', SCI, 'CFS α_max of the design (typed, or chosen for the near field and the band\'s long end)', (p) => conductivityFromNorm(p.design.alphaMaxNorm, p.accuracy.cell, p.inputs.index)),
+  col('worst_evanescent', '|r|', SCI, 'worst near-field reflection seen back at the structure, |r_ev|·e^(−2·gap/L); blank without a near-field check', (p) => p.design.worstEvanescent),
+  col('limiting_index', '', '0.00', 'index of the medium crossing the absorber that limits the design', (p) => p.design.limitingIndex),
+  col('sampling_checked', '', '@', 'grid convention(s) the design holds for (exact for it)', (p) => p.design.samplingChecked),
+  col('absorber_thickness', 'm', SCI, 'layers × cell', (p) => p.design.layers * p.accuracy.cell),
   col('ppw_short', 'cells/λ', FIX1, 'cells per wavelength in the background, short end', (p) => p.grid.ppwShort),
   col('ppw_long', 'cells/λ', FIX1, 'cells per wavelength in the background, long end', (p) => p.grid.ppwLong),
   col('ppw_densest', 'cells/λ', FIX1, 'cells per wavelength in the densest material, short end', (p) => p.grid.ppwDensest),
