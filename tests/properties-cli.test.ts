@@ -441,7 +441,7 @@ const designArgs = argLists([
 describe('property: hush design exits 0 with finite output or 2 with one line', () => {
   it(`${DESIGN_RUNS} calls`, async () => {
     await fc.assert(
-      fc.asyncProperty(designArgs, async (a) => checkCall('design', ['design', ...a], await run(['design', ...a]), ONE_SEARCH, ['worst_amplitude_db'])),
+      fc.asyncProperty(designArgs, async (a) => checkCall('design', ['design', ...a], await run(['design', ...a]), ONE_SEARCH, ['worst_amplitude_db', 'worst_evanescent', 'worst_evanescent_bare', 'worst_evanescent_decay_cells'])),
       params(DESIGN_RUNS),
     );
     expect(tallies.design.codes[0]).toBeGreaterThan(DESIGN_RUNS * 0.1);
@@ -605,7 +605,7 @@ function writeTableFile(t: TableCase): { file: string; typed: string; header: st
  */
 const OPTIONAL_OUTPUTS = new Set([
   'time_step', 'simulated_time', 'steps', 'runtime', 'runtime_interior', 'runtime_absorber', 'runtime_exchange', 'absorber_share', 'cost', 'halo_per_step',
-  'ppw_min', 'resonance_shift', 'cost_absorber', 'cost_refinement', 'saving', 'continuous_reflection_db',
+  'ppw_min', 'resonance_shift', 'cost_absorber', 'cost_refinement', 'saving', 'continuous_reflection_db', 'worst_evanescent',
 ]);
 /** Columns that are given together or not at all (a NaN turned into null by JSON would break a group). */
 const GROUPS = [
