@@ -5,7 +5,7 @@
  * barrel, so the add-in bundle never pulls these in; exceljs is loaded only
  * when an .xlsx plan is written.
  */
-export { readTable, tableFormat, detectDelimiter, type ReadOptions, type ReadStats, type TableFormat } from './table/read';
+export { readTable, tableReadWork, tableFormat, detectDelimiter, type ReadOptions, type ReadStats, type TableFormat } from './table/read';
 export { MAX_TABLE_BYTES, MAX_TABLE_CELLS, MAX_TABLE_COLUMNS, MAX_TABLE_ROWS, HEADER_SEARCH_ROWS, MAX_FIELD_CHARS } from './table/limits';
 export type { SourceRow, Table, TableColumn } from './table/model';
 export type { PlannedRow } from './table/layout';

@@ -5,11 +5,11 @@
  * the process's peak resident memory, and whether exceljs was loaded.
  */
 import { main } from '../../src/cli/main';
-import { readTable, type ReadStats } from '../../src/plan/table-file';
+import { readTable, tableReadWork, type ReadStats } from '../../src/plan/table-file';
 
 async function run(): Promise<void> {
   const [mode, ...args] = process.argv.slice(2);
-  const stats: ReadStats = { bytesUnpacked: 0, rowsRead: 0, cellsRead: 0 };
+  let stats: ReadStats = { bytesUnpacked: 0, rowsRead: 0, cellsRead: 0 };
   const out: string[] = [];
   const err: string[] = [];
   const t0 = process.cpuUsage();
@@ -24,6 +24,7 @@ async function run(): Promise<void> {
     }
   } else {
     code = await main([mode, ...args], { out: (t) => out.push(t), err: (t) => err.push(t), isTTY: false });
+    stats = tableReadWork();
   }
   const d = process.cpuUsage(t0);
   const exceljs = Object.keys(require.cache).some((k) => /[\\/]node_modules[\\/]exceljs[\\/]/.test(k));

@@ -34,7 +34,7 @@ export function decodeTable(bytes: Uint8Array, name: string): DecodedText {
   } catch {
     const at = firstInvalidUtf8(bytes);
     return {
-      text: new TextDecoder('windows-1252').decode(bytes),
+      text: windows1252(bytes),
       encoding: 'Windows-1252',
       note:
         `${name} is not UTF-8 (byte ${at + 1} is 0x${bytes[at].toString(16).toUpperCase().padStart(2, '0')}); read as Windows-1252, the encoding of a "CSV" ` +
@@ -78,4 +78,30 @@ function firstInvalidUtf8(b: Uint8Array): number {
     i += n + 1;
   }
   return Math.max(0, b.length - 1);
+}
+
+/**
+ * Windows-1252: Latin-1 except 0x80–0x9F, which hold € ‚ ƒ „ … † ‡ ˆ ‰ Š ‹ Œ Ž
+ * ‘ ’ “ ” • – — ˜ ™ š › œ ž Ÿ (WHATWG Encoding Standard, index-windows-1252,
+ * recalled from memory and checked in tests against Python's cp1252 codec);
+ * the five bytes it leaves undefined map to the same C1 code points, as that
+ * index does. Node's TextDecoder('windows-1252') decodes Latin-1 instead.
+ */
+const HIGH = [
+  0x20ac, 0x81, 0x201a, 0x192, 0x201e, 0x2026, 0x2020, 0x2021, 0x2c6, 0x2030, 0x160, 0x2039, 0x152, 0x8d, 0x17d, 0x8f,
+  0x90, 0x2018, 0x2019, 0x201c, 0x201d, 0x2022, 0x2013, 0x2014, 0x2dc, 0x2122, 0x161, 0x203a, 0x153, 0x9d, 0x17e, 0x178,
+];
+
+export function windows1252(bytes: Uint8Array): string {
+  let out = '';
+  for (let i = 0; i < bytes.length; i += 8192) {
+    const chunk = bytes.subarray(i, Math.min(bytes.length, i + 8192));
+    const codes = new Array<number>(chunk.length);
+    for (let k = 0; k < chunk.length; k++) {
+      const b = chunk[k];
+      codes[k] = b >= 0x80 && b <= 0x9f ? HIGH[b - 0x80] : b;
+    }
+    out += String.fromCharCode(...codes);
+  }
+  return out;
 }

@@ -54,9 +54,17 @@ export function isDateFormat(code: string): boolean {
   return /[dmyhs]/i.test(bare) && !/^general$/i.test(bare.trim());
 }
 
-/** ISO 8601 text of a spreadsheet date serial (days since 1899-12-30, or since 1904-01-01 in a 1904 workbook); the time only when there is one. */
+/**
+ * ISO 8601 text of a spreadsheet date serial as a spreadsheet shows it: days
+ * since 1899-12-30 in the 1900 date system (since 1904-01-01 in a 1904
+ * workbook), the time only when there is one. The 1900 system counts a
+ * 29 February 1900 that did not exist (common practice of spreadsheet
+ * programs, kept for compatibility): serial 60 is shown as that day and
+ * serials below it one day later than the plain count gives.
+ */
 export function serialDateText(serial: number, date1904: boolean): string {
-  const epoch = date1904 ? Date.UTC(1904, 0, 1) : Date.UTC(1899, 11, 30);
+  if (!date1904 && serial >= 60 && serial < 61) return '1900-02-29';
+  const epoch = date1904 ? Date.UTC(1904, 0, 1) : serial < 60 ? Date.UTC(1899, 11, 31) : Date.UTC(1899, 11, 30);
   const ms = Math.round(serial * 86400000);
   const iso = new Date(epoch + ms).toISOString();
   return ms % 86400000 === 0 ? iso.slice(0, 10) : iso.slice(0, 19);

@@ -33,6 +33,20 @@ export interface ReadOptions {
   stats?: ReadStats;
 }
 
+/** Work of every table read in this process (counted, like the design search's designWork). */
+const work: ReadStats = { bytesUnpacked: 0, rowsRead: 0, cellsRead: 0 };
+
+/** Rows, cells and unpacked bytes read by all readTable calls so far in this process. */
+export function tableReadWork(): ReadStats {
+  return { ...work };
+}
+
+function count(s: ReadStats): void {
+  work.bytesUnpacked += s.bytesUnpacked;
+  work.rowsRead += s.rowsRead;
+  work.cellsRead += s.cellsRead;
+}
+
 function bad(message: string): HushInputError {
   return new HushInputError('table', message, 'value');
 }
@@ -44,11 +58,17 @@ export async function readTable(file: string, options: ReadOptions = {}): Promis
   const size = (await fs.stat(file)).size;
   if (size > MAX_TABLE_BYTES) throw bad(`${file} is ${size} bytes: a project table file may be at most ${MAX_TABLE_BYTES} bytes`);
   const bytes = await fs.readFile(file);
-  if (format === 'csv') {
-    if (options.sheet !== undefined) throw bad(`--sheet applies to .xlsx workbooks; ${file} is a CSV file`);
-    return readCsvTable(file, bytes, options.stats);
+  const stats: ReadStats = { bytesUnpacked: 0, rowsRead: 0, cellsRead: 0 };
+  try {
+    if (format === 'csv') {
+      if (options.sheet !== undefined) throw bad(`--sheet applies to .xlsx workbooks; ${file} is a CSV file`);
+      return readCsvTable(file, bytes, stats);
+    }
+    return await readXlsxTable(file, bytes, { ...options, stats });
+  } finally {
+    count(stats);
+    if (options.stats) Object.assign(options.stats, stats);
   }
-  return readXlsxTable(file, bytes, options);
 }
 
 const FIELD_SET = new Set(INPUT_NAMES);
@@ -66,7 +86,7 @@ export function detectDelimiter(text: string): ',' | ';' {
   return ',';
 }
 
-function readCsvTable(file: string, bytes: Buffer, stats?: ReadStats): Table {
+function readCsvTable(file: string, bytes: Buffer, stats: ReadStats): Table {
   const decoded = decodeTable(bytes, file);
   const text = decoded.text;
   const delimiter = detectDelimiter(text);
@@ -79,10 +99,8 @@ function readCsvTable(file: string, bytes: Buffer, stats?: ReadStats): Table {
     (fields) => {
       n++;
       for (const f of fields) if (f !== '' && ++cells > MAX_TABLE_CELLS) throw bad(`${file} has more than ${MAX_TABLE_CELLS} cells: a project table may have at most ${MAX_TABLE_CELLS}; split it`);
-      if (stats) {
-        stats.rowsRead = n;
-        stats.cellsRead = cells;
-      }
+      stats.rowsRead = n;
+      stats.cellsRead = cells;
       rows.push({ number: n, values: fields });
       if (header === null) {
         if (n === HEADER_SEARCH_ROWS) {

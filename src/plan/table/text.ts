@@ -81,3 +81,20 @@ export function plainNumber(text: string): number | null {
   const x = Number(text);
   return Number.isFinite(x) ? x : null;
 }
+
+/**
+ * OOXML's escape for characters XML 1.0 cannot hold: "_xHHHH_" (ECMA-376
+ * Part 1, §22.9.2.19 ST_Xstring); "_x005F_" escapes an underscore that
+ * starts such a sequence. Spreadsheet programs write control characters
+ * typed in a cell this way.
+ */
+export function ooxmlUnescape(text: string): string {
+  return text.indexOf('_x') < 0 ? text : text.replace(/_x([0-9A-Fa-f]{4})_/g, (_, h: string) => String.fromCharCode(parseInt(h, 16)));
+}
+
+const OOXML_UNSAFE = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\ufffe\uffff]|_(?=x[0-9A-Fa-f]{4}_)/g;
+
+/** Text with the characters XML 1.0 cannot hold (and DEL) written as "_xHHHH_", so a workbook keeps them. */
+export function ooxmlEscape(text: string): string {
+  return text.replace(OOXML_UNSAFE, (ch) => (ch === '_' ? '_x005F_' : `_x${ch.charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}_`));
+}

@@ -19,7 +19,7 @@ import { renameNote } from './header';
 import { planLayout, type PlannedRow, type Slot } from './layout';
 import type { SourceRow, Table } from './model';
 import { share, type PlanTotals } from './summary';
-import { plainNumber } from './text';
+import { ooxmlEscape, plainNumber } from './text';
 import { ESTIMATE_NOTE } from './write-json';
 import { fixZipTimes } from './zip';
 
@@ -53,10 +53,15 @@ class Styles {
 function inputValue(table: Table, row: SourceRow, c: number): CellValue {
   const v = row.values[c];
   const formula = row.formulas?.[c];
-  if (formula !== undefined) return (row.noResult?.has(c) ? { formula } : { formula, result: v }) as CellValue;
+  if (formula !== undefined) return (row.noResult?.has(c) ? { formula } : { formula, result: text(v) }) as CellValue;
   if (v === undefined || v === null || v === '') return null;
-  if (typeof v === 'string' && table.format === 'csv') return plainNumber(v) ?? v;
-  return v as CellValue;
+  if (typeof v === 'string' && table.format === 'csv') return plainNumber(v) ?? ooxmlEscape(v);
+  return text(v) as CellValue;
+}
+
+/** A value as the workbook holds it: text with control characters escaped (ooxmlEscape), so none is dropped. */
+function text<T>(v: T): T {
+  return (typeof v === 'string' ? ooxmlEscape(v) : v) as T;
 }
 
 function textLength(v: FieldValue): number {
@@ -107,10 +112,10 @@ async function writePlanSheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, tabl
         const cell = row.getCell(k + 1);
         cell.value = value;
         cell.style = styles.of(source.formats?.[c]);
-        if (note !== undefined) cell.note = note;
+        if (note !== undefined) cell.note = text(note);
       } else if (outputs && outputs[s.output] !== null && outputs[s.output] !== undefined) {
         const cell = row.getCell(k + 1);
-        cell.value = outputs[s.output] as CellValue;
+        cell.value = text(outputs[s.output]) as CellValue;
         cell.style = outputStyles[s.output];
       }
     });
@@ -128,10 +133,10 @@ async function writePlanSheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, tabl
       const c = s.column;
       const note = table.header.notes?.[c.index];
       if (c.name !== '' || note !== undefined) {
-        cell.value = c.generated ? c.name : (table.header.values[c.index] as CellValue) ?? c.name;
+        cell.value = text(c.generated ? c.name : (table.header.values[c.index] as CellValue) ?? c.name);
         if (table.header.formats?.[c.index]) cell.numFmt = table.header.formats[c.index] as string;
       }
-      if (note !== undefined) cell.note = note;
+      if (note !== undefined) cell.note = text(note);
       else if (c.generated) cell.note = 'This column had cells but no header; Hush named it by its column letter.';
       cell.fill = INPUT_FILL;
     } else {
@@ -225,7 +230,7 @@ async function writeSummarySheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, p
     values.forEach((v, k) => {
       if (v === null || v === undefined) return;
       const cell = row.getCell(k + 1);
-      cell.value = v;
+      cell.value = text(v);
       cell.style = columnStyles[k];
     });
     row.commit();
@@ -273,7 +278,7 @@ async function writeAboutSheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, tab
   const about = wb.addWorksheet('about');
   about.columns = [{ width: 24 }, { width: 16 }, { width: 90 }];
   const add = (values: CellValue[], bold = false) => {
-    const r = about.addRow(values);
+    const r = about.addRow(values.map(text));
     if (bold) r.font = { bold: true };
     return r;
   };

@@ -11,7 +11,7 @@ import type { FieldValue } from '../units';
 import { builtinFormat } from './formats';
 import { MAX_CELL_CHARS, MAX_TABLE_CELLS, MAX_TABLE_COLUMNS, MAX_TABLE_ROWS, MAX_XLSX_UNPACKED_BYTES } from './limits';
 import type { SourceRow } from './model';
-import { cellName, columnIndex, columnLetters, quoteInput } from './text';
+import { cellName, columnIndex, columnLetters, ooxmlUnescape, quoteInput } from './text';
 import { readXml, StopReading, XmlError } from './xml';
 import { BudgetSpent, entryChunks, zipEntries, ZipError, type UnpackBudget, type ZipEntry } from './zip';
 import { tooManyRows } from './header';
@@ -177,7 +177,7 @@ async function readSharedStrings(wb: Workbook, part: string): Promise<void> {
       else if (name === 'rPh') phonetic--;
       else if (name === 'si') {
         if (wb.strings.length >= MAX_TABLE_CELLS) throw bad(wb.file, `has more than ${MAX_TABLE_CELLS} shared strings: a project table has at most ${MAX_TABLE_CELLS} cells`);
-        wb.strings.push(text);
+        wb.strings.push(ooxmlUnescape(text));
       }
     },
     text(t) {
@@ -276,9 +276,11 @@ export async function readSheetRows(wb: Workbook, sheet: SheetInfo, o: SheetRead
         break;
       }
       case 'inlineStr':
-        v = inline ?? '';
+        v = ooxmlUnescape(inline ?? '');
         break;
       case 'str':
+        v = ooxmlUnescape(value ?? '');
+        break;
       case 'e':
       case 'd':
         v = value ?? '';
@@ -380,9 +382,13 @@ export async function readSheetRows(wb: Workbook, sheet: SheetInfo, o: SheetRead
       }
     },
     text(t) {
-      if (target === 'v') value += t;
-      else if (target === 'f') formula += t;
-      else if (target === 't' && phonetic === 0) inline += t;
+      let length = 0;
+      if (target === 'v') length = (value += t).length;
+      else if (target === 'f') length = (formula += t).length;
+      else if (target === 't' && phonetic === 0) length = (inline += t).length;
+      if (length > MAX_CELL_CHARS && row) {
+        throw refused(`${o.where}: cell ${cellName(col, row.number)} has more than ${MAX_CELL_CHARS} characters, more than a spreadsheet cell holds`);
+      }
     },
   });
   return rows;
@@ -408,7 +414,7 @@ export async function readSheetNotes(wb: Workbook, sheet: SheetInfo): Promise<Ma
     close(name) {
       if (name === 't') inT = false;
       else if (name === 'comment') {
-        if (ref) notes.set(ref, text);
+        if (ref) notes.set(ref, ooxmlUnescape(text));
         if (notes.size > MAX_TABLE_CELLS) throw bad(wb.file, `has more than ${MAX_TABLE_CELLS} notes`);
         ref = null;
       }

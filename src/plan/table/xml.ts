@@ -26,8 +26,13 @@ function local(name: string): string {
 
 /** Attributes by local name (namespace declarations left out; the first of two with one local name kept). */
 function attributes(tag: SaxesTagPlain): Record<string, string> {
+  const a = tag.attributes as Record<string, string>;
+  let plain = true;
+  for (const k in a) if (k.includes(':')) plain = false;
+  // Most tags have no prefixed attribute: their attributes are used as they are (only known names are read from them).
+  if (plain) return a;
   const out: Record<string, string> = Object.create(null);
-  for (const [k, v] of Object.entries(tag.attributes)) {
+  for (const [k, v] of Object.entries(a)) {
     if (k === 'xmlns' || k.startsWith('xmlns:')) continue;
     out[local(k)] ??= v as string;
   }
