@@ -150,7 +150,7 @@ describe('totals: the same figures under the table, in the CSV total row, the JS
   it('`hush plan` prints the totals under its table, before the planned/failed line', () => {
     const t = json.totals;
     const line = stdout[stdout.length - 3];
-    expect(line).toMatch(/^total: 8 studies, [\d,]+ cells \(absorber \d+\.\d %\), peak memory 1\.061 GB \(Jetty symmetric waveguide \(half domain\); absorber \d+\.\d %\), [\d,]+ steps, .* node-hours \(absorber \d+\.\d %\), runtime .* h \(absorber \d+\.\d %\), cost .* \$ \(absorber \d+\.\d %\)$/);
+    expect(line).toMatch(/^total: 8 studies, [\d,]+ cells \(absorber \d+\.\d %\), peak memory 1\.061 GB \(Jetty symmetric waveguide \(half domain\); absorber \d+\.\d %\), [\d,]+ steps, .* node-hours \(absorber \d+\.\d %\), runtime .* h \(absorber \d+\.\d %\), cost \$[\d.]+ \(absorber \d+\.\d %\)$/);
     expect(line).toContain(`${(t.cells_total as number).toLocaleString('en-US')} cells`);
     expect(line).toContain(`${(t.steps as number).toLocaleString('en-US')} steps`);
     expect(stdout[stdout.length - 2]).toMatch(/^8 planned, 0 failed/);

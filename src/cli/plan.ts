@@ -92,7 +92,11 @@ export function totalsLine(t: PlanTotals): string {
     parts.push(`runtime ${fmt(t.runtimeHours)} h (absorber ${pct(t.runtimeAbsorberHours, t.runtimeHours)})`);
   }
   if (t.cost === null) parts.push(`no cost total (prices in ${t.currencies.join(', ')})`);
-  else if (t.withCost) parts.push(`cost ${fmt(t.cost)}${t.currencies.length === 1 ? ` ${t.currencies[0]}` : ''} (absorber ${pct(t.costAbsorber ?? 0, t.cost)})`);
+  else if (t.withCost) {
+    const c = t.currencies.length === 1 ? t.currencies[0] : '';
+    const amount = /^\p{Sc}+$/u.test(c) ? `${c}${fmt(t.cost)}` : `${fmt(t.cost)}${c ? ` ${c}` : ''}`;
+    parts.push(`cost ${amount} (absorber ${pct(t.costAbsorber ?? 0, t.cost)})`);
+  }
   const partial = t.withRuntime && t.withRuntime < t.studies ? `; runtime and cost of the ${t.withRuntime} studies that have them` : '';
   return `total: ${parts.join(', ')}${partial}`;
 }
