@@ -23,11 +23,16 @@ const TYPES = {
 function serve(dir, port = 3100, host = '127.0.0.1') {
   const root = path.resolve(dir);
   const server = http.createServer((req, res) => {
+    // A path that does not decode, or that holds a control character (a null
+    // byte makes fs throw), is answered 400; the server keeps running.
     let rel;
     try {
       rel = decodeURIComponent(new URL(req.url, 'http://localhost').pathname);
     } catch {
-      res.writeHead(400).end('bad request');
+      rel = null;
+    }
+    if (rel === null || /[\u0000-\u001f\u007f]/.test(rel)) {
+      res.writeHead(400, { 'Content-Type': 'text/plain; charset=utf-8' }).end('bad request: malformed path');
       return;
     }
     if (rel.endsWith('/')) rel += 'taskpane.html';
@@ -36,14 +41,23 @@ function serve(dir, port = 3100, host = '127.0.0.1') {
       res.writeHead(403).end('forbidden');
       return;
     }
-    fs.readFile(file, (err, body) => {
-      if (err) {
-        res.writeHead(404, { 'Content-Type': 'text/plain; charset=utf-8' }).end(`not found: ${rel}`);
-        return;
-      }
-      res.writeHead(200, { 'Content-Type': TYPES[path.extname(file)] || 'application/octet-stream', 'Cache-Control': 'no-store' });
-      res.end(body);
-    });
+    try {
+      fs.readFile(file, (err, body) => {
+        if (err) {
+          res.writeHead(404, { 'Content-Type': 'text/plain; charset=utf-8' }).end(`not found: ${encodeURI(rel)}`);
+          return;
+        }
+        res.writeHead(200, { 'Content-Type': TYPES[path.extname(file)] || 'application/octet-stream', 'Cache-Control': 'no-store' });
+        res.end(body);
+      });
+    } catch {
+      res.writeHead(400, { 'Content-Type': 'text/plain; charset=utf-8' }).end('bad request: malformed path');
+    }
+  });
+  // A malformed request line is answered 400 by Node and never reaches the handler; a socket error never stops the server.
+  server.on('clientError', (err, socket) => {
+    if (socket.writable) socket.end('HTTP/1.1 400 Bad Request\r\nConnection: close\r\n\r\n');
+    else socket.destroy();
   });
   return new Promise((resolve, reject) => {
     server.once('error', reject);

@@ -8,6 +8,7 @@ import { main } from '../src/cli/main';
 import type { CommandIO } from '../src/cli/io';
 import { OUTPUT_NAMES, planHeaderText } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
+import { plainNumber } from '../src/plan/table/text';
 
 const dir = mkdtempSync(join(tmpdir(), 'hush-plan-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -86,7 +87,9 @@ describe('hush plan', () => {
       const row = ws.getRow(r0);
       for (let c = 0; c < source[0].length; c++) {
         const v = row.getCell(c + 1).value;
-        expect(v === null ? '' : v).toBe(source[r0 - 1][c]); // text exactly as typed
+        // A plain number becomes a number cell; anything else stays text exactly as typed.
+        const typed = source[r0 - 1][c];
+        expect(v === null ? '' : v).toBe(plainNumber(typed) ?? typed);
       }
       expect(typeof row.getCell(layersCol).value).toBe('number');
     }
@@ -120,9 +123,15 @@ describe('hush plan', () => {
     const out = join(dir, 'demo-plan.csv');
     expect((await run(['plan', demo, '--out', out])).code).toBe(0);
     const source = parseCsv(readFileSync(demo, 'utf8'));
-    const written = parseCsv(readFileSync(out, 'utf8'));
-    expect(written.length).toBe(source.length);
-    written.forEach((row, i) => expect(row.slice(0, source[0].length)).toEqual(source[i]));
+    const text = readFileSync(out, 'utf8');
+    expect(text.startsWith('\uFEFF')).toBe(true); // byte-order mark: spreadsheet programs then read σ, λ, × as UTF-8
+    const written = parseCsv(text);
+    // Every row as typed, and a last row of totals marked in its notes cell.
+    expect(written.length).toBe(source.length + 1);
+    source.forEach((row, i) => expect(written[i].slice(0, source[0].length)).toEqual(row));
+    const total = written[written.length - 1];
+    expect(total[source[0].indexOf('study')]).toBe('total');
+    expect(total[written[0].indexOf('notes')]).toMatch(/^total of 8 planned studies; .*not a study row$/);
     // Planning the written plan again gives the same file (old output columns are replaced).
     const again = join(dir, 'again.csv');
     expect((await run(['plan', out, '--out', again])).code).toBe(0);
@@ -164,7 +173,7 @@ describe('hush plan', () => {
     expect(refused.out).toBe('');
     expect(readFileSync(other, 'utf8')).toBe('a,b\r\n1,2\r\n');
     expect((await run(['plan', table, '--out', other, '--replace'])).code).toBe(0);
-    expect(readFileSync(other, 'utf8')).toMatch(/^study,remark,/);
+    expect(readFileSync(other, 'utf8')).toMatch(/^\uFEFFstudy,remark,/);
     expect((await run(['plan', table, '--replace'])).err).toMatch(/--replace only applies with --out/);
     // No temporary file is left beside the plan.
     expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);

@@ -1,14 +1,32 @@
 import { statSync } from 'fs';
 import * as path from 'path';
-import { isHushInputError } from '../plan/steps';
-import { INPUT_NAMES, OUTPUT_NAMES, errorToRow, headerName, planRow, planToRow, rowFromTable, type PlanCell } from '../plan';
-import { isBlank } from '../plan/units';
-import { readTable, tableFormat, writeTable, type PlannedRow, type Table } from '../plan/table-file';
+import { OUTPUT_NAMES, type PlanCell } from '../plan';
+import {
+  describeRead,
+  jsonTerminalSafe,
+  keptColumnNames,
+  outputHeaders,
+  planTable,
+  prepareOutput,
+  readTable,
+  renameNote,
+  repeatedFieldNotes,
+  fieldColumns,
+  rowLabel,
+  share,
+  tableFormat,
+  terminalSafe,
+  writeTable,
+  type PlanTotals,
+  type Table,
+} from '../plan/table-file';
 import { parseArgs, stringOption, UsageError } from './args';
-import { fmt, oneLine, processIO, type CommandIO } from './io';
+import { fmt, processIO, type CommandIO } from './io';
 
 export const planUsage =
-  'hush plan TABLE.csv|TABLE.xlsx [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; the table itself is never written; an existing --out file is replaced only with --replace)';
+  'hush plan TABLE.csv|TABLE.xlsx [--sheet NAME|N] [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; ' +
+  'the header row may sit below title rows; --sheet picks the sheet of an .xlsx by name or position, default the first visible sheet with a header; ' +
+  'the table itself is never written; an existing --out file is replaced only with --replace)';
 
 /** Device and inode of an existing file, or null. */
 function identity(file: string): string | null {
@@ -50,104 +68,151 @@ function num(v: PlanCell, scale = 1): string {
   return typeof v === 'number' ? fmt(v * scale) : '—';
 }
 
+/** A whole number with all its digits, grouped by thousands. */
+function whole(x: number): string {
+  return Math.round(x).toLocaleString('en-US');
+}
+
+function pct(part: number, whole: number): string {
+  const s = share(part, whole);
+  return s === null ? '—' : `${(100 * s).toFixed(1)} %`;
+}
+
+/** The totals printed under the table (the same figures as the workbook's summary sheet and the JSON totals). */
+export function totalsLine(t: PlanTotals): string {
+  if (!t.studies) return 'total: no study planned';
+  const parts = [
+    `${t.studies} ${t.studies === 1 ? 'study' : 'studies'}`,
+    `${whole(t.cells)} cells (absorber ${pct(t.cellsAbsorber, t.cells)})`,
+    `peak memory ${fmt(t.peakMemoryBytes / 1e9)} GB (${t.peakMemoryStudy}; absorber ${pct(t.peakMemoryAbsorberBytes, t.peakMemoryBytes)})`,
+  ];
+  if (t.withSteps) parts.push(`${whole(t.steps)} steps`);
+  if (t.withRuntime) {
+    parts.push(`${fmt(t.nodeHours)} node-hours (absorber ${pct(t.nodeHoursAbsorber, t.nodeHours)})`);
+    parts.push(`runtime ${fmt(t.runtimeHours)} h (absorber ${pct(t.runtimeAbsorberHours, t.runtimeHours)})`);
+  }
+  if (t.cost === null) parts.push(`no cost total (prices in ${t.currencies.join(', ')})`);
+  else if (t.withCost) {
+    const c = t.currencies.length === 1 ? t.currencies[0] : '';
+    const amount = /^\p{Sc}+$/u.test(c) ? `${c}${fmt(t.cost)}` : `${fmt(t.cost)}${c ? ` ${c}` : ''}`;
+    parts.push(`cost ${amount} (absorber ${pct(t.costAbsorber ?? 0, t.cost)})`);
+  }
+  const partial = t.withRuntime && t.withRuntime < t.studies ? `; runtime and cost of the ${t.withRuntime} studies that have them` : '';
+  return `total: ${parts.join(', ')}${partial}`;
+}
+
+/** Notes on what was read, printed once the plan is written. */
+function readingNotes(table: Table): string[] {
+  const notes = [...table.notes];
+  const kept = keptColumnNames(table).filter((n) => n !== '"remark"');
+  if (kept.length) notes.push(`columns kept as they are (not plan fields): ${kept.join(', ')}`);
+  const renamed = renameNote(outputHeaders(table).renamed);
+  if (renamed) notes.push(renamed);
+  const columns = fieldColumns(table);
+  for (const r of repeatedFieldNotes(columns)) notes.push(`${r}: rows that give it fail; keep one of those columns`);
+  if (!columns.has('band_short')) notes.push('the table has no band_short column; every row will fail');
+  return notes;
+}
+
 /** `hush plan`: plans every row of a project table and writes the table back with the outputs added. */
 export async function planCommand(argv: string[], io: CommandIO): Promise<number> {
-  const args = parseArgs(argv, { out: {}, json: { flag: true }, replace: { flag: true } });
+  const args = parseArgs(argv, { out: {}, json: { flag: true }, replace: { flag: true }, sheet: {} });
   if (args.positional.length !== 1) throw new UsageError(`give one project table (.csv or .xlsx)${args.positional.length ? `, got ${args.positional.length} arguments` : ''}`);
   const file = args.positional[0];
   const fmtIn = tableFormat(file);
   if (fmtIn !== 'csv' && fmtIn !== 'xlsx') throw new UsageError(`${file}: the project table must be a .csv or .xlsx file`);
+  const sheet = stringOption(args, 'sheet');
+  if (sheet !== undefined && fmtIn !== 'xlsx') throw new UsageError('--sheet applies to .xlsx tables (a CSV file has one table)');
   const out = stringOption(args, 'out');
   if (out !== undefined && tableFormat(out) === null) throw new UsageError(`--out ${out}: write the plan as .xlsx, .csv or .json`);
   if (out === undefined && args.options.has('replace')) throw new UsageError('--replace only applies with --out');
-  if (out !== undefined) checkOut(file, out, args.options.has('replace'));
+  if (out !== undefined) {
+    checkOut(file, out, args.options.has('replace'));
+    // A missing or read-only directory is found before the table is read and planned.
+    await prepareOutput(out);
+  }
+  // Text from the table is shown with its control characters escaped.
+  const say = (t: string) => io.out(terminalSafe(t));
+  const warn = (t: string) => io.err(terminalSafe(t));
 
   let table: Table;
   try {
-    table = await readTable(file);
+    table = await readTable(file, { sheet });
   } catch (e) {
-    io.err(`hush plan: cannot read ${file}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
+    // Reader messages start with the file's name; it is said once.
+    const message = e instanceof Error ? e.message : String(e);
+    const rest = message.startsWith(file) ? message.slice(file.length).replace(/^[:,]?\s*/, '') : message;
+    warn(`hush plan: cannot read ${file}: ${rest}`);
     return 2;
   }
-  const names = table.header.map(headerName);
-  const known = new Set([...INPUT_NAMES, ...OUTPUT_NAMES, 'remark']);
-  const unknown = table.header.filter((h, k) => !isBlank(h) && !known.has(names[k]));
+  const read = describeRead(table);
   // Notes are printed once the plan is written, so a run that ends in an error (exit 2) prints that error alone.
-  const notes: string[] = [];
-  if (unknown.length) notes.push(`hush plan: columns kept as they are (not plan fields): ${unknown.map((h) => JSON.stringify(String(h))).join(', ')}`);
-  if (!names.includes('band_short')) notes.push('hush plan: the table has no band_short column; every row will fail');
-
-  const bar = progress(io);
-  const planned: PlannedRow[] = [];
-  const summary: string[][] = [];
-  let failures = 0;
-  const total = table.rows.length;
-  table.rows.forEach((values, i) => {
-    const row = rowFromTable(table.header, values);
-    const label = typeof row.study !== "string" && typeof row.study !== "number" || isBlank(row.study) ? `row ${i + 2}` : String(row.study).trim().replace(/\s+/g, ' ');
-    if (values.every(isBlank)) {
-      planned.push({ values, outputs: null, failed: false });
-    } else {
-      try {
-        const plan = planRow(row);
-        const o = planToRow(plan);
-        planned.push({ values, outputs: o, failed: false });
-        summary.push([
-          label,
-          String(plan.design.layers),
-          String(plan.design.order),
-          fmt(plan.design.worstAmplitude, 3),
-          String(pick(o, 'grid')),
-          num(pick(o, 'overhead_percent')),
-          num(pick(o, 'memory')),
-          num(pick(o, 'steps')),
-          num(pick(o, 'runtime')),
-          num(pick(o, 'cost')),
-          plan.warnings.length ? `${plan.warnings.length} note${plan.warnings.length > 1 ? 's' : ''}` : '',
-        ]);
-      } catch (e) {
-        failures++;
-        const msg = isHushInputError(e) ? e.message : `internal error: ${e instanceof Error ? e.message : String(e)}`;
-        planned.push({ values, outputs: errorToRow(msg), failed: true });
-        summary.push([label, 'ERROR', '', '', '', '', '', '', '', '', oneLine(msg)]);
-      }
-    }
-    if (bar) bar(i + 1, total);
-  });
+  const notes = readingNotes(table);
+  const { planned, totals, plans, errors } = planTable(table, progress(io) ?? undefined);
 
   if (out !== undefined) {
     try {
-      await writeTable(out, table.header, planned);
+      await writeTable(out, table, planned, totals, { read });
     } catch (e) {
-      io.err(`hush plan: cannot write ${out}: ${oneLine(e instanceof Error ? e.message : String(e))}`);
+      warn(`hush plan: cannot write ${out}: ${e instanceof Error ? e.message : String(e)}`);
       return 2;
     }
   }
-  for (const n of notes) io.err(n);
+  for (const n of notes) warn(`hush plan: ${n}`);
 
   if (args.options.has('json')) {
     io.out(
-      JSON.stringify(
-        planned.map((r, i) => ({
-          row: i + 2,
-          failed: r.failed,
-          outputs: r.outputs ? Object.fromEntries(OUTPUT_NAMES.map((n, j) => [n, (r.outputs as PlanCell[])[j]])) : null,
-        })),
+      jsonTerminalSafe(
+        JSON.stringify(
+          planned.map((r) => ({
+            row: r.row.number,
+            failed: r.failed,
+            outputs: r.outputs ? Object.fromEntries(OUTPUT_NAMES.map((n, j) => [n, (r.outputs as PlanCell[])[j]])) : null,
+          })),
+        ),
       ),
     );
   } else {
+    const summary: string[][] = [];
+    const studyColumns = fieldColumns(table).get('study');
+    planned.forEach((r, i) => {
+      if (!r.outputs) return;
+      const label = rowLabel(studyColumns && studyColumns.length === 1 ? r.row.values[studyColumns[0]] : undefined, r.row.number);
+      const plan = plans[i];
+      if (!plan) {
+        summary.push([label, 'ERROR', '', '', '', '', '', '', '', '', errors[i] ?? '']);
+        return;
+      }
+      const o = r.outputs;
+      summary.push([
+        label,
+        String(plan.design.layers),
+        String(plan.design.order),
+        fmt(plan.design.worstAmplitude, 3),
+        String(pick(o, 'grid')),
+        num(pick(o, 'overhead_percent')),
+        num(pick(o, 'memory')),
+        num(pick(o, 'steps')),
+        num(pick(o, 'runtime')),
+        num(pick(o, 'cost')),
+        plan.warnings.length ? `${plan.warnings.length} note${plan.warnings.length > 1 ? 's' : ''}` : '',
+      ]);
+    });
+    const shown = summary.map((r) => r.map(terminalSafe));
     const head = ['study', 'layers', 'order', 'worst |r|', 'grid', 'overhead %', 'memory GB', 'steps', 'runtime h', 'cost', 'notes'];
-    const widths = head.map((h, c) => Math.min(c === 0 ? 40 : 16, Math.max(h.length, ...summary.map((r) => r[c].length))));
+    const widths = head.map((h, c) => Math.min(c === 0 ? 40 : 16, Math.max(h.length, ...shown.map((r) => r[c].length))));
     const line = (cells: string[]) =>
       cells.map((t, c) => (c === cells.length - 1 ? t : c === 0 ? t.slice(0, widths[c]).padEnd(widths[c]) : t.padStart(widths[c]))).join('  ');
+    say(read);
     io.out(line(head));
-    for (const r of summary) io.out(line(r));
-    io.out(`${summary.length - failures} planned, ${failures} failed; runtime and cost are planning estimates (check convergence with a thicker absorber)`);
+    for (const r of shown) io.out(line(r));
+    say(totalsLine(totals));
+    io.out(`${totals.studies} planned, ${totals.failed} failed; runtime and cost are planning estimates (check convergence with a thicker absorber)`);
   }
 
-  if (out !== undefined && !args.options.has('json')) io.out(`wrote ${out}`);
-  for (const [i, r] of planned.entries()) {
-    if (r.failed && r.outputs) io.err(`hush plan: row ${i + 2}: ${oneLine(String(r.outputs[OUTPUT_NAMES.indexOf('notes')]).replace(/^error: /, ''))}`);
-  }
-  return failures ? 1 : 0;
+  if (out !== undefined && !args.options.has('json')) say(`wrote ${out}`);
+  planned.forEach((r, i) => {
+    if (r.failed) warn(`hush plan: row ${r.row.number}: ${errors[i] ?? ''}`);
+  });
+  return totals.failed ? 1 : 0;
 }

@@ -1,75 +1,121 @@
 /**
- * CSV as RFC 4180 defines it: fields separated by commas, records by CRLF (LF
- * accepted), a field in double quotes may hold commas, line breaks and doubled
- * quotes. Text stays text: the reader never converts numbers, so a table can be
- * written back exactly as typed.
+ * CSV as RFC 4180 defines it: fields separated by commas (or another
+ * delimiter), records by CRLF (LF or CR accepted), a field in double quotes
+ * may hold delimiters, line breaks and doubled quotes. Text stays text: the
+ * reader never converts numbers, so a table can be written back exactly as
+ * typed.
  */
 import { HushInputError } from '../physics/errors';
 
-/** Parses CSV text into records of fields. A leading byte-order mark is dropped; a final line break ends the last record. */
-export function parseCsv(text: string): string[][] {
-  const s = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rows: string[][] = [];
-  let row: string[] = [];
-  let field = '';
-  let i = 0;
-  let quoted = false;
-  let fieldStarted = false;
+export interface CsvOptions {
+  /** Field delimiter, one character (default ","). */
+  delimiter?: string;
+  /** Fields of a record beyond this many are dropped when empty and refused when not (default: no bound). */
+  maxFields?: number;
+  /** Most characters of one field (default: no bound). */
+  maxFieldChars?: number;
+}
+
+const QUOTE = 34;
+const CR = 13;
+const LF = 10;
+
+function tooLong(line: number, field: number, max: number): never {
+  throw new HushInputError('csv', `CSV line ${line}, field ${field}: more than ${max} characters in one cell`, 'value');
+}
+
+/**
+ * Calls `onRecord(fields, line)` for each record (line = where it starts,
+ * 1-based); stops when `onRecord` throws. A leading byte-order mark is
+ * dropped; a final line break ends the last record.
+ */
+export function eachCsvRecord(text: string, onRecord: (fields: string[], line: number) => void, options: CsvOptions = {}): void {
+  const delim = (options.delimiter ?? ',').charCodeAt(0);
+  const maxFields = options.maxFields ?? Infinity;
+  const maxChars = options.maxFieldChars ?? Infinity;
+  const s = text;
+  const n = s.length;
+  let i = s.charCodeAt(0) === 0xfeff ? 1 : 0;
   let line = 1;
-  while (i < s.length) {
-    const ch = s[i];
-    if (quoted) {
-      if (ch === '"') {
-        if (s[i + 1] === '"') {
-          field += '"';
-          i += 2;
+  let row: string[] = [];
+  let fieldCount = 0;
+  let recordLine = 1;
+  let any = false;
+  const push = (v: string) => {
+    fieldCount++;
+    if (v.length > maxChars) tooLong(recordLine, fieldCount, maxChars);
+    if (fieldCount <= maxFields) row.push(v);
+    else if (v !== '') {
+      throw new HushInputError('csv', `CSV line ${recordLine} has a value in field ${fieldCount}: a project table may have at most ${maxFields} columns`, 'value');
+    }
+  };
+  while (i < n) {
+    any = true;
+    let c = s.charCodeAt(i);
+    let value: string;
+    if (c === QUOTE) {
+      // Quoted field: runs up to a quote not followed by another quote.
+      let start = i + 1;
+      let parts = '';
+      let closed = false;
+      let j = start;
+      while (j < n) {
+        const q = s.indexOf('"', j);
+        if (q < 0) break;
+        for (let k = j; k < q; k++) if (s.charCodeAt(k) === LF) line++;
+        if (s.charCodeAt(q + 1) === QUOTE) {
+          parts += s.slice(start, q + 1);
+          if (parts.length > maxChars) tooLong(recordLine, fieldCount + 1, maxChars);
+          j = q + 2;
+          start = j;
           continue;
         }
-        quoted = false;
-        i++;
-        const next = s[i];
-        if (next !== undefined && next !== ',' && next !== '\n' && next !== '\r') {
-          throw new HushInputError('csv', `CSV line ${line}: text after a closing quote (RFC 4180 quotes whole fields)`, 'value');
-        }
-        continue;
+        parts += s.slice(start, q);
+        i = q + 1;
+        closed = true;
+        break;
       }
-      if (ch === '\n') line++;
-      field += ch;
+      if (!closed) throw new HushInputError('csv', `CSV line ${recordLine}: a quoted field is not closed`, 'value');
+      value = parts;
+      c = s.charCodeAt(i);
+      if (i < n && c !== delim && c !== CR && c !== LF) {
+        throw new HushInputError('csv', `CSV line ${line}: text after a closing quote (RFC 4180 quotes whole fields)`, 'value');
+      }
+    } else {
+      let j = i;
+      while (j < n) {
+        const d = s.charCodeAt(j);
+        if (d === delim || d === CR || d === LF) break;
+        j++;
+      }
+      value = s.slice(i, j);
+      i = j;
+      c = s.charCodeAt(i);
+    }
+    push(value);
+    if (i >= n) break;
+    if (c === delim) {
       i++;
+      if (i >= n) push('');
       continue;
     }
-    if (ch === '"' && !fieldStarted) {
-      quoted = true;
-      fieldStarted = true;
-      i++;
-      continue;
-    }
-    if (ch === ',') {
-      row.push(field);
-      field = '';
-      fieldStarted = false;
-      i++;
-      continue;
-    }
-    if (ch === '\r' || ch === '\n') {
-      row.push(field);
-      rows.push(row);
-      row = [];
-      field = '';
-      fieldStarted = false;
-      i += ch === '\r' && s[i + 1] === '\n' ? 2 : 1;
-      line++;
-      continue;
-    }
-    field += ch;
-    fieldStarted = true;
-    i++;
+    // End of record.
+    i += c === CR && s.charCodeAt(i + 1) === LF ? 2 : 1;
+    const fields = row;
+    row = [];
+    fieldCount = 0;
+    onRecord(fields, recordLine);
+    line++;
+    recordLine = line;
+    any = false;
   }
-  if (quoted) throw new HushInputError('csv', `CSV line ${line}: a quoted field is not closed`, 'value');
-  if (fieldStarted || row.length > 0) {
-    row.push(field);
-    rows.push(row);
-  }
+  if (any) onRecord(row, recordLine);
+}
+
+/** Parses CSV text into records of fields (see eachCsvRecord). */
+export function parseCsv(text: string, options: CsvOptions = {}): string[][] {
+  const rows: string[][] = [];
+  eachCsvRecord(text, (r) => rows.push(r), options);
   return rows;
 }
 

@@ -26,7 +26,7 @@ export * from './fields';
 export { APP_VERSION } from './version';
 export { parseCsv, writeCsv } from './csv';
 export * from './steps';
-export { planInputs, rowFromTable, columnLetters, type FieldValue, type PlanInputs, type ProjectRow, type ColumnProblem } from './row';
+export { planInputs, rowFromTable, columnLetters, columnValue, type FieldValue, type PlanInputs, type ProjectRow, type ColumnProblem } from './row';
 
 export interface PlanGrid {
   ppwShort: number;

@@ -17,7 +17,7 @@ import { canonical, type Gap } from './units';
 import type { MonitorKind } from '../physics/budget';
 import type { PathLength } from './fields/kinds';
 import type { SamplingConvention } from '../physics/grading';
-import { inputColumn, isBlank, readInput, type KindValue, type ReadOptions } from './fields';
+import { inputColumn, isBlank, readInput, type InputColumn, type KindValue, type ReadOptions } from './fields';
 
 /** What a table cell holds. */
 export type FieldValue = string | number | boolean | null | undefined;
@@ -119,6 +119,20 @@ export function columnLetters(k: number): string {
  * 20 nm); a unit that contradicts the field, or a field named by two columns,
  * makes that field an error for the row (other fields are still read).
  */
+/**
+ * The value a project row holds for one cell of an input column: the cell as
+ * typed, a bare number with the column header's unit attached ("cell [um]":
+ * 0.02 → "0.02 um"), or the column's problem when its header unit contradicts
+ * the field (a blank cell there is simply blank).
+ */
+export function columnValue(c: InputColumn, v: FieldValue): FieldValue | ColumnProblem {
+  if (c.problem) return isBlank(v) ? undefined : { problem: c.problem };
+  if (c.unit !== undefined && (typeof v === 'number' || (typeof v === 'string' && /^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(v)))) {
+    return `${String(v).trim()} ${c.unit}`;
+  }
+  return v;
+}
+
 export function rowFromTable(header: readonly unknown[], values: readonly FieldValue[]): ProjectRow {
   const row: ProjectRow = {};
   const seen = new Map<string, number>();
@@ -132,11 +146,7 @@ export function rowFromTable(header: readonly unknown[], values: readonly FieldV
       return;
     }
     seen.set(name, k);
-    const v = values[k];
-    if (c.problem) row[name] = isBlank(v) ? undefined : { problem: c.problem };
-    else if (c.unit !== undefined && (typeof v === 'number' || (typeof v === 'string' && /^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(v)))) {
-      row[name] = `${String(v).trim()} ${c.unit}`;
-    } else row[name] = v;
+    row[name] = columnValue(c, values[k]);
   });
   return row;
 }

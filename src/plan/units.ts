@@ -331,17 +331,58 @@ export function parseNumber(field: string, v: FieldValue): number {
   throw new HushInputError(field, `${field} must be a plain number (got ${JSON.stringify(t)})`, 'value');
 }
 
+/** Currency words accepted in lower case (ISO 4217 codes are upper case; these are often typed in lower case). */
+const LOWER_CASE_CODES = new Set(['usd', 'eur', 'gbp', 'chf', 'jpy', 'cny', 'cad', 'aud', 'nzd', 'sek', 'nok', 'dkk', 'pln', 'czk', 'huf', 'inr', 'sgd', 'hkd', 'krw', 'brl', 'mxn', 'zar']);
+/** Currency words that are not three-letter codes (krona/krone, franc, rupee, forint). */
+const CURRENCY_WORDS = new Set(['kr', 'Kr', 'Fr', 'fr', 'Rs', 'Ft']);
+
+/** A currency as typed beside a price: a symbol ($, €, US$), an ISO 4217 code (EUR), or a common currency word (kr). */
+function currencyWord(w: string): boolean {
+  return /^\p{Sc}{1,2}$/u.test(w) || /^[A-Za-z]{1,3}\p{Sc}$/u.test(w) || /^[A-Z]{3}$/.test(w) || LOWER_CASE_CODES.has(w) || CURRENCY_WORDS.has(w);
+}
+
+/** A price and the currency typed with it ('' when none). See parsePrice. */
+export function priceParts(field: string, v: FieldValue): { value: number; currency: string } {
+  const bare = bareNumber(field, v);
+  if (bare !== null) return { value: bare, currency: '' };
+  const t = (v as string).trim();
+  const refuse = (): never => {
+    throw new HushInputError(
+      field,
+      `${field} must be a price per hour such as 3, 3/h, $3/h, 2.40 EUR/h or $2.5k/h (k = ×1000, M = ×1000000) (got ${JSON.stringify(t.length > 80 ? `${t.slice(0, 80)}…` : t)})`,
+      'value',
+    );
+  };
+  const body = t.replace(/\s*(?:\/|\bper\b)\s*(?:node[- ]?)?(?:h|hr|hour)\s*$/i, '');
+  const m = /^([^\d+\-.\s]{0,4})\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/u.exec(body);
+  if (!m) return refuse();
+  const prefix = m[1];
+  let rest = m[3].trim();
+  let scale = 1;
+  const mult = /^([kKM])(.*)$/u.exec(rest);
+  if (mult) {
+    const after = mult[2];
+    if (after === '' || /^\s/.test(after) || /^\p{Sc}/u.test(after) || /^[A-Z]{3}$/.test(after)) {
+      scale = mult[1] === 'M' ? 1e6 : 1e3;
+      rest = after.trim();
+    }
+  }
+  if (prefix && !currencyWord(prefix)) return refuse();
+  if (rest && !currencyWord(rest)) return refuse();
+  if (prefix && rest) return refuse();
+  const currency = prefix || rest;
+  return { value: finite(field, Number(m[2]) * scale, v), currency: /^[a-z]{3}$/.test(currency) ? currency.toUpperCase() : currency };
+}
+
 /**
  * A price per hour in any currency: "3", "3/h", "$3/h", "2.40 EUR/h",
- * "3 per hour". The currency is not kept; the cost column is in the same one.
+ * "3 per hour", "$2.5k/h", "2.5 kEUR/h" (k or K = ×10³, M = ×10⁶, after the
+ * number). Anything else after the number than a currency is refused, so a
+ * multiplier is never ignored ("2.5 mio", "2.5m"). The currency is not kept;
+ * the cost column is in the same one.
  */
 export function parsePrice(field: string, v: FieldValue): number {
-  const bare = bareNumber(field, v);
-  if (bare !== null) return bare;
-  const t = (v as string).trim();
-  const m = /^([^\d+\-.\s]{0,4})\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([A-Za-z]{0,4}|[^\d\s/]{0,2})?\s*(?:(?:\/|per)\s*(h|hr|hour|node-hour|node-h|node hour))?$/i.exec(t);
-  if (!m) throw new HushInputError(field, `${field} must be a price per hour such as 3, 3/h or $3/h (got ${JSON.stringify(t)})`, 'value');
-  return finite(field, Number(m[2]), v);
+  return priceParts(field, v).value;
 }
 
 /** A gap: "5" or "5 cells" (cells), "0.5 wavelengths" / "0.5 λ" (in the medium), or a length. */
