@@ -9,8 +9,17 @@
  *   http           serve over plain http (no certificates needed; Office itself requires https)
  *   port=N         dev-server port (default: npm config dev_server_port, else 3000)
  *   publicUrl=URL  where dist/web will be hosted; replaces https://localhost:3000/ in the copied manifest
+ *                  and in the help links (helpUrl) of functions.json
+ *
+ * Besides the two entries, webpack bundles two Web Workers from their
+ * `new Worker(new URL(…), …)` expressions, each a self-contained script with
+ * its own runtime: the task pane's verification (taskpane/verify.worker.ts)
+ * and the heavy worksheet functions' worker (src/functions/worker.ts, named
+ * functions-worker.js). HelpPagesPlugin writes the functions' help pages
+ * (scripts/help-pages.ts) into help/.
  */
 'use strict';
+const fs = require('fs');
 const path = require('path');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
@@ -18,6 +27,41 @@ const HtmlWebpackPlugin = require('html-webpack-plugin');
 
 const DEV_URL = 'https://localhost:3000/';
 const OUTPUT = path.resolve(__dirname, 'dist/web');
+const FUNCTIONS = path.resolve(__dirname, 'src/functions/functions.ts');
+
+/**
+ * One help page per worksheet function (help/<ID>.html, help/index.html,
+ * help/help.css), generated from the JSDoc of src/functions/functions.ts by
+ * scripts/help-pages.ts (TypeScript, loaded through tsx); and functions.json,
+ * once custom-functions-metadata-plugin has emitted it, with each description
+ * cut to its one sentence (the examples are on the help page) and each
+ * helpUrl on the public URL.
+ */
+class HelpPagesPlugin {
+  constructor(options) {
+    this.options = options;
+  }
+
+  apply(compiler) {
+    const { Compilation, sources } = compiler.webpack;
+    compiler.hooks.thisCompilation.tap('HushHelpPages', (compilation) => {
+      compilation.hooks.processAssets.tap({ name: 'HushHelpPages', stage: Compilation.PROCESS_ASSETS_STAGE_ADDITIONAL }, () => {
+        // tsx loads the TypeScript generator (and scripts/lib/examples.ts) on demand.
+        const help = require('tsx/cjs/api').require(path.join(__dirname, 'scripts/help-pages.ts'), path.join(__dirname, 'webpack.config.js'));
+        const source = fs.readFileSync(FUNCTIONS, 'utf8');
+        compilation.fileDependencies.add(FUNCTIONS);
+        for (const [name, text] of help.helpFiles(source, this.options.version)) {
+          compilation.emitAsset(`${help.HELP_DIR}/${name}`, new sources.RawSource(text));
+        }
+        const meta = compilation.getAsset('functions.json');
+        if (meta) {
+          const json = help.excelMetadata(meta.source.source().toString(), source, this.options.publicUrl);
+          compilation.updateAsset('functions.json', new sources.RawSource(json));
+        }
+      });
+    });
+  }
+}
 
 /** HTTPS options from the Office dev certificates, or null (with the reason) when they cannot be had. */
 async function devCertificates() {
@@ -88,6 +132,7 @@ module.exports = async (env = {}, argv = {}) => {
         output: 'functions.json',
         input: './src/functions/functions.ts',
       }),
+      new HelpPagesPlugin({ publicUrl, version: `Hush ${require('./package.json').version}` }),
       new HtmlWebpackPlugin({
         filename: 'taskpane.html',
         template: './taskpane/taskpane.html',

@@ -101,6 +101,8 @@ const tableParams: ParamSpec[] = [
   ['header', 'any', false, 'matrix'],
   ['row', 'any', false, 'matrix'],
 ];
+/** The heavy functions: computed in the worksheet functions' worker and cancelled by Excel when superseded (src/functions/plans.ts). */
+const CANCELABLE = new Set(['REFLECTION_TABLE', 'LAYERS', 'DESIGN', 'PLAN', 'CELLS', 'MEMORY', 'STEPS', 'RUNTIME', 'COST']);
 const expected: Record<string, { params: ParamSpec[]; result: string; matrix: boolean }> = {
   NEEDED_REFLECTION: { params: [['intensity_error', 'any', false], ...budgetTail], result: 'number', matrix: false },
   ERROR_FROM_REFLECTION: { params: [['amplitude', 'any', false], ...budgetTail], result: 'number', matrix: false },
@@ -157,14 +159,15 @@ describe('generated functions.json', () => {
       }
       expect(f.result.type ?? '', f.id).toBe(e.result);
       expect(f.result.dimensionality ?? 'scalar', f.id).toBe(e.matrix ? 'matrix' : 'scalar');
-      // Pure functions of their arguments: nothing volatile, streaming or cancelable.
-      expect(f.options ?? {}, f.id).toEqual({});
+      // Pure functions of their arguments: nothing volatile or streaming; the heavy ones are cancelable (issue 13).
+      expect(f.options ?? {}, f.id).toEqual(CANCELABLE.has(f.id) ? { cancelable: true } : {});
     }
   });
 
-  it('describes each function with its worked example, so Excel users see it too', () => {
+  it('describes each function in one sentence; its worked examples are on its help page (tests/help-pages.test.ts)', () => {
     for (const f of metadata()) {
-      expect(f.description).toMatch(new RegExp(`Example: =HUSH\\.${f.id}\\(`));
+      expect(f.description, f.id).toMatch(/^[^\n]+\.$/);
+      expect(f.description, f.id).not.toMatch(/Example:|[.!?]\s+\S/);
     }
   });
 
@@ -236,8 +239,19 @@ describe('bundles and page', () => {
     for (const m of libraries) expect(m).not.toMatch(/decimal\.js|typed-function|seedrandom/);
   });
 
+  it('the worksheet functions\' worker is a script of its own (functions-worker.js): self-contained, not loaded by the page, named by functions.js', () => {
+    const worker = readFileSync(path.join(out, 'functions-worker.js'), 'utf8');
+    expect(worker).not.toMatch(/importScripts/);
+    const html = readFileSync(path.join(out, 'taskpane.html'), 'utf8');
+    expect(pageScripts(html)).not.toContain('functions-worker.js');
+    const own = modules('functions-worker.js');
+    for (const m of ['src/functions/worker.ts', 'src/functions/worker-tasks.ts', 'src/plan/index.ts', 'src/physics/design.ts']) expect(own, m).toContain(m);
+    for (const m of own) expect(m, 'no task pane or Office code in the worker').not.toMatch(/^(taskpane|src\/workbook)\//);
+    expect(readFileSync(path.join(out, 'functions.js'), 'utf8') + readFileSync(path.join(out, 'shared.js'), 'utf8')).toContain('functions-worker');
+  });
+
   it('no eval in the bundles (the CSP forbids it)', () => {
-    for (const f of ['shared.js', 'functions.js', 'taskpane.js']) {
+    for (const f of ['shared.js', 'functions.js', 'taskpane.js', 'functions-worker.js']) {
       expect(readFileSync(path.join(out, f), 'utf8')).not.toMatch(/\beval\(/);
     }
   });
@@ -311,6 +325,9 @@ describe('http dev server (no certificates)', () => {
     expect(meta.ok).toBe(true);
     const ids = ((await meta.json()) as { functions: FunctionMeta[] }).functions.map((f) => f.id);
     expect(ids).toContain('NEEDED_REFLECTION');
+    const help = await fetch(`${base}/help/PLAN.html`);
+    expect(help.ok).toBe(true);
+    expect(await help.text()).toContain('HUSH.PLAN');
     expect(log).not.toMatch(/certificate/i);
   });
 });

@@ -4,7 +4,9 @@
  * HUSH.COST, called the way Excel calls them (ranges as 2-D arrays, omitted
  * arguments as null, blank cells as "" or null), against independent calls of
  * the core and of the plan API; then the scheduler that keeps a 200-row
- * recalculation from blocking the shared runtime.
+ * recalculation from blocking the shared runtime where the functions compute
+ * on the main thread (in Node, and on hosts without a Web Worker; the worker
+ * route and cancellation are in tests/functions-worker.test.ts).
  */
 import { readFileSync } from 'fs';
 import path from 'path';
@@ -251,6 +253,23 @@ describe('scheduler (src/functions/scheduler.ts)', () => {
     // 5 ms tasks and a 20 ms budget: at most 4 tasks per slice (the fourth crosses it), so at least 5 slices (derived).
     expect(st.mostTasksPerSlice).toBeLessThanOrEqual(4);
     expect(st.slices).toBeGreaterThanOrEqual(5);
+    expect(s.pending()).toBe(0);
+  });
+
+  it('a queued task can be withdrawn: it never runs, the tasks around it do; a task that ran cannot be', async () => {
+    const s = createScheduler(20);
+    const ran: string[] = [];
+    const a = s.scheduleTask(() => ran.push('a'));
+    const b = s.scheduleTask(() => ran.push('b'));
+    const c = s.scheduleTask(() => ran.push('c'));
+    expect(s.pending()).toBe(3);
+    expect(b.cancel()).toBe(true);
+    expect(b.cancel()).toBe(false);
+    expect(s.pending()).toBe(2);
+    await Promise.all([a.promise, c.promise]);
+    expect(ran).toEqual(['a', 'c']);
+    expect(a.cancel()).toBe(false);
+    expect(s.stats()).toMatchObject({ tasks: 2, withdrawn: 1 });
     expect(s.pending()).toBe(0);
   });
 

@@ -4,6 +4,8 @@
  * 1×1 and larger ranges as 2-D arrays, TRUE/FALSE. A stub of the global
  * CustomFunctions records every worksheet error the functions raise.
  */
+import { readFileSync } from 'fs';
+import path from 'path';
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import {
   MODEL_VERSION,
@@ -25,6 +27,7 @@ import {
 } from '../src/functions/functions';
 import { arg, isBlank, listArg, requiredArg, singleValue } from '../src/functions/args';
 import { toWorksheetError } from '../src/functions/errors';
+import { REFLECTION_TABLE_MAX_WORK, checkTableSize, tableWork } from '../src/functions/worker-tasks';
 import { readInput } from '../src/plan/fields';
 import pkg from '../package.json';
 
@@ -56,6 +59,8 @@ afterEach(() => {
 });
 
 type Loose = (...args: unknown[]) => unknown;
+
+const source = readFileSync(path.join(__dirname, '../src/functions/functions.ts'), 'utf8');
 
 /** Calls a worksheet function with anything Excel might pass. */
 function call(fn: unknown, ...args: unknown[]): unknown {
@@ -256,20 +261,52 @@ describe('unit strings and percentages where a quantity has a unit', () => {
 });
 
 describe('HUSH.REFLECTION_TABLE', () => {
-  it('is HUSH.REFLECTION at every ppw (rows) and angle (columns) of the ranges (independent call per cell)', () => {
-    const t = reflectionTable(10, 3, [[20], [40], [80]], [[0, '30 deg', 60]], 1.2, 2);
+  /** The worksheet error a Promise-returning call settles with. */
+  async function asyncErrorOf(fn: unknown, ...args: unknown[]): Promise<{ code: string; message?: string }> {
+    try {
+      await call(fn, ...args);
+    } catch (e) {
+      expect(e).toBeInstanceOf(StubWorksheetError);
+      const w = e as StubWorksheetError;
+      return { code: w.code, message: w.message };
+    }
+    throw new Error('expected a worksheet error');
+  }
+
+  it('is HUSH.REFLECTION at every ppw (rows) and angle (columns) of the ranges (independent call per cell)', async () => {
+    const t = await reflectionTable(10, 3, [[20], [40], [80]], [[0, '30 deg', 60]], 1.2, 2);
     expect(t.length).toBe(3);
     [20, 40, 80].forEach((ppw, i) => [0, 30, 60].forEach((a, j) => expect(t[i][j]).toBe(reflectionExact(10, 3, ppw, a, 1.2, 2))));
     // A row of ppw values reads the same as a column; blank cells are skipped; no angles means normal incidence.
-    expect(reflectionTable(10, 3, [[20, '', 40]])).toEqual([[reflectionExact(10, 3, 20)], [reflectionExact(10, 3, 40)]]);
-    expect(reflectionTable(10, 3, [[20]], null as unknown as undefined)).toEqual([[reflectionExact(10, 3, 20)]]);
+    expect(await reflectionTable(10, 3, [[20, '', 40]])).toEqual([[reflectionExact(10, 3, 20)], [reflectionExact(10, 3, 40)]]);
+    expect(await reflectionTable(10, 3, [[20]], null as unknown as undefined)).toEqual([[reflectionExact(10, 3, 20)]]);
   });
 
-  it('refuses bad values and oversized ranges with the argument named', () => {
-    expect(errorOf(reflectionTable, 10, 3, [['x']])).toEqual({ code: '#VALUE!', message: 'ppw must be a number (got "x")' });
-    expect(errorOf(reflectionTable, 10, 3, [[]])).toEqual({ code: '#VALUE!', message: 'ppw_list needs at least one value' });
-    expect(errorOf(reflectionTable, 10, 3, [Array(501).fill(20)])).toEqual({ code: '#VALUE!', message: 'ppw_list takes at most 500 values (got 501)' });
-    expect(errorOf(reflectionTable, 10, 3, [[20]], [[0, 95]]).code).toBe('#NUM!');
+  it('refuses bad values and oversized ranges with the argument named', async () => {
+    expect(await asyncErrorOf(reflectionTable, 10, 3, [['x']])).toEqual({ code: '#VALUE!', message: 'ppw must be a number (got "x")' });
+    expect(await asyncErrorOf(reflectionTable, 10, 3, [[]])).toEqual({ code: '#VALUE!', message: 'ppw_list needs at least one value' });
+    expect(await asyncErrorOf(reflectionTable, 10, 3, [Array(501).fill(20)])).toEqual({ code: '#VALUE!', message: 'ppw_list takes at most 500 values (got 501)' });
+    expect((await asyncErrorOf(reflectionTable, 10, 3, [[20]], [[0, 95]])).code).toBe('#NUM!');
+  });
+
+  it(`refuses more than REFLECTION_TABLE_MAX_WORK = ${REFLECTION_TABLE_MAX_WORK} cells × layers with #NUM! stating the bound, before computing anything`, async () => {
+    const w0 = tableWork();
+    const ppws = [Array.from({ length: 500 }, (_, i) => 10 + i)];
+    const angles = [Array.from({ length: 500 }, (_, i) => (i * 89) / 500)];
+    expect(await asyncErrorOf(reflectionTable, 200, 3, ppws, angles)).toEqual({
+      code: '#NUM!',
+      message:
+        'REFLECTION_TABLE computes at most 2,000,000 cells × layers (values of ppw_list × angles × layers); 500 × 500 × 200 = 50,000,000 asked: give fewer values or fewer layers',
+    });
+    expect(await asyncErrorOf(reflectionTable, 81, 3, [ppws[0].slice(0, 100)], [angles[0].slice(0, 250)])).toMatchObject({ code: '#NUM!' });
+    expect(tableWork()).toBe(w0);
+    // At the bound exactly it is accepted (checked without computing it): 100 × 100 × 200 and 500 × 500 × 8 (derived: both 2·10⁶).
+    const job = (n: number, m: number, layers: number) => ({ kind: 'table' as const, design: { layers, order: 3 }, wave: { courant: 0.5, dimensions: 3 }, ppws: Array(n).fill(20), angles: Array(m).fill(0) });
+    expect(() => checkTableSize(job(100, 100, 200))).not.toThrow();
+    expect(() => checkTableSize(job(500, 500, 8))).not.toThrow();
+    expect(() => checkTableSize(job(100, 101, 200))).toThrow(HushInputError);
+    // The description Excel shows states the same bound.
+    expect(source).toContain(`at most ${REFLECTION_TABLE_MAX_WORK.toLocaleString('en-US')} cells × layers.`);
   });
 });
 

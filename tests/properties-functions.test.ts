@@ -257,19 +257,25 @@ describe('property: synchronous worksheet functions return finite values or #VAL
     );
   });
 
-  it(`HUSH.REFLECTION_TABLE over random ranges (${RUNS} calls)`, () => {
+  it(`HUSH.REFLECTION_TABLE over random ranges (${RUNS} calls, ${BATCH} in flight at a time; it returns a Promise)`, async () => {
     // Ranges of 1–4 × 1–4 cells (mixed with junk), in the ppw_list and angles slots of the REFLECTION arguments.
     const range = (a: fc.Arbitrary<unknown>) => fc.array(fc.array(a, { minLength: 1, maxLength: 4 }), { minLength: 1, maxLength: 4 });
     const mostly = (a: fc.Arbitrary<unknown>) => fc.oneof({ weight: 30, arbitrary: a }, { weight: 1, arbitrary: junkScalar });
     const lists = fc.tuple(range(mostly(num(2, 200))), fc.oneof(blank, range(mostly(num(0, 89.9)))));
-    fc.assert(
-      fc.property(reflectionArgs, lists, (args, [ppws, angles]) => {
-        const a = args.slice();
-        a[2] = ppws;
-        a[3] = angles;
-        checkSync('reflectionTable', 'grid', a);
+    const tableArgs = fc.tuple(reflectionArgs, lists).map(([args, [ppws, angles]]) => {
+      const a = args.slice();
+      a[2] = ppws;
+      a[3] = angles;
+      return a;
+    });
+    await fc.assert(
+      fc.asyncProperty(fc.array(tableArgs, { minLength: BATCH, maxLength: BATCH }), async (batch) => {
+        const meter = workMeter();
+        const outcomes = await Promise.all(batch.map((a) => start('reflectionTable', a)));
+        outcomes.forEach((o, k) => checkOutcome('reflectionTable', o, 'grid', batch[k]));
+        expect(meter.used(), 'REFLECTION_TABLE ran a design search').toBe(0);
       }),
-      params,
+      { numRuns: Math.max(1, Math.round(RUNS / BATCH)), seed: SEED, asyncReporter, endOnFailure: true },
     );
     // A good share of the calls get through to the computation.
     expect(tally('reflectionTable').values).toBeGreaterThan(RUNS * 0.1);
