@@ -59,6 +59,10 @@ async function settled(p: Promise<unknown>): Promise<{ value: unknown } | { code
 type Invocation = { onCanceled?: () => void };
 const invocation = (): Invocation => ({});
 const cancel = (inv: Invocation) => inv.onCanceled!();
+/** The worksheet function's arguments padded with nulls to its own count, then the invocation (it is always the last parameter). */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+const call = <F extends (...a: any[]) => any>(f: F, args: unknown[], inv: Invocation): ReturnType<F> =>
+  f(...[...args, ...Array(f.length - 1 - args.length).fill(null)], inv);
 const CANCELLED = { code: '#VALUE!', message: new JobCancelled().message };
 
 /**
@@ -288,10 +292,10 @@ describe('cancellation through the worksheet functions (memo semantics, plans.ts
   it('a cancelled call followed by the same call within the grace (a forced recalculation) keeps the running job', async () => {
     const { w, ex } = install();
     const a = invocation();
-    const first = settled(layers(1e-3, 20, null, null, undefined, null, null, null, null, null, a));
+    const first = settled(call(layers, [1e-3, 20, null, null, undefined], a));
     await until(() => w.last().posted.length === 1, 'design posted');
     cancel(a);
-    const second = layers(1e-3, 20, null, null, undefined, null, null, null, null, null, invocation());
+    const second = call(layers, [1e-3, 20, null, null, undefined], invocation());
     await afterGrace();
     expect(w.last().terminated).toBe(false);
     w.last().finish();
@@ -304,7 +308,7 @@ describe('cancellation through the worksheet functions (memo semantics, plans.ts
     const { w, ex } = install();
     const a = invocation();
     const running = layers(1e-3, 20);
-    const waiting = settled(design(1e-4, 15, 30, 45, [[3, 4]], null, null, null, null, null, a));
+    const waiting = settled(call(design, [1e-4, 15, 30, 45, [[3, 4]]], a));
     cancel(a);
     await afterGrace();
     expect(ex.stats()).toMatchObject({ cancelledWaiting: 1, cancelledRunning: 0 });
@@ -330,7 +334,7 @@ describe('cancellation through the worksheet functions (memo semantics, plans.ts
     const inv = invocation();
     const ppws = [[10, 20, 30, 40, 50, 60, 70, 80]];
     const w0 = tableWork();
-    const t = settled(reflectionTable(40, 3, ppws, [[0, 30, 60]], null, null, null, null, null, null, null, inv));
+    const t = settled(call(reflectionTable, [40, 3, ppws, [[0, 30, 60]]], inv));
     await macrotask(); // the first slice: row 1 (its next row is queued only after it, by a microtask)
     expect(tableWork() - w0).toBe(3 * 40);
     cancel(inv);

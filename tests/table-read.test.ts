@@ -110,7 +110,7 @@ describe('CSV delimiter', () => {
     expect(describeRead(t)).toBe(`${f}: header on row 1, 2 studies (';'-separated)`);
     const r = await run(['plan', f]);
     expect(r.code).toBe(1);
-    expect(r.err).toEqual(['hush plan: row 3: intensity_error must be a plain number (got "0,5%")']);
+    expect(r.err).toEqual(['hush plan: row 3: intensity_error must be a number or a percentage such as 0.01 or 1% (got "0,5%")']);
   });
   it('"," when the header has one, even with ";" in its cells', async () => {
     const t = await readTable(file('comma.csv', `${HEAD.join(',')},remark\r\n${ROW.join(',')},"a;b"\r\n`));
