@@ -402,7 +402,7 @@ export function groupVelocity(ppw: any, courant?: any, dimensions?: any, angle?:
 
 /**
  * Versions of the add-in and of its physical model, to keep in the workbook so that colleagues can check they compute with the same model.
- * Example: =HUSH.MODEL_VERSION() → "Hush 0.1.0, model 2.0.0"
+ * Example: =HUSH.MODEL_VERSION() → "Hush 0.2.0, model 2.0.0"
  * @customfunction MODEL_VERSION
  * @helpurl https://localhost:3000/help/MODEL_VERSION.html
  * @returns "Hush <add-in version>, model <model version>".
