@@ -21,7 +21,8 @@ import {
   type Table,
 } from '../plan/table-file';
 import { parseArgs, stringOption, UsageError } from './args';
-import { fmt, processIO, type CommandIO } from './io';
+import { fmt, type CommandIO } from './io';
+import { progressBar } from './progress';
 
 export const planUsage =
   'hush plan TABLE.csv|TABLE.xlsx [--sheet NAME|N] [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; ' +
@@ -49,16 +50,7 @@ function checkOut(table: string, out: string, replace: boolean): void {
   if (!replace && identity(out) !== null) throw new UsageError(`--out ${out} already exists; give --replace to overwrite it, or choose another name`);
 }
 
-function progress(io: CommandIO): ((done: number, total: number) => void) | null {
-  const tty = io === processIO ? Boolean(process.stderr.isTTY) : io.isTTY;
-  if (!tty) return null;
-  const write = io === processIO ? (t: string) => process.stderr.write(t) : (t: string) => io.err(t);
-  return (done, total) => {
-    const width = 30;
-    const filled = Math.round((width * done) / total);
-    write(`\r[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done === total ? '\n' : ''}`);
-  };
-}
+const progress = (io: CommandIO) => progressBar(io);
 
 function pick(outputs: PlanCell[], name: string): PlanCell {
   return outputs[OUTPUT_NAMES.indexOf(name)];
