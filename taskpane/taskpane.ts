@@ -21,9 +21,9 @@ import { renderStudy } from './study-view';
 import { chartColours, officeTheme, systemTheme, type Theme } from './theme';
 import { CancelledError, Verifier } from './verify';
 import { largestRelativeDifference, type MeasuredPoint, type VerifyGrid } from './verify-protocol';
+import { AGREEMENT } from '../src/plan/verify-compare';
 
-/** Relative difference between measurement and prediction accepted as agreement (the measurement's own accuracy). */
-export const AGREEMENT = 0.01;
+export { AGREEMENT };
 
 interface State {
   workbook: Workbook;

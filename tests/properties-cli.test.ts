@@ -47,6 +47,9 @@ import { DESIGN_WORK_BOUND, workMeter } from './support/work-bound';
 const RUNS = propertyRuns(2_000);
 const DESIGN_RUNS = propertyRuns(1_000);
 const PLAN_RUNS = propertyRuns(1_000);
+/** Calls of `hush verify`, each with at most VERIFY_WORK cell updates of time-domain work. */
+const VERIFY_RUNS = propertyRuns(200, 0.02);
+const VERIFY_WORK = 2e6;
 /** Calls with unknown commands or bare help: a tenth of the quick commands' in the full run. */
 const HELP_RUNS = propertyRuns(200, 0.1);
 const SEED = Number(process.env.HUSH_PROPERTY_SEED ?? 7_2025);
@@ -445,6 +448,49 @@ describe('property: hush design exits 0 with finite output or 2 with one line', 
       params(DESIGN_RUNS),
     );
     expect(tallies.design.codes[0]).toBeGreaterThan(DESIGN_RUNS * 0.1);
+  });
+});
+
+// ---------------------------------------------------------------- verify
+
+/**
+ * `hush verify` with design or absorber options from small pools, every call
+ * ending in `--max-work 2e6` (after the mutations, so no mutation removes it):
+ * a call runs at most 2e6 cell updates, or is refused with exit 2 before a step.
+ * Exit 1 (a disagreement) is allowed only with --grid-sampling, which runs the
+ * grid under another convention than the prediction's.
+ */
+const verifyArgs = argLists([
+  { name: 'target', value: pool('1e-2', '1e-3', '1e-4', '0.05'), presence: 0.8 },
+  { name: 'layers', value: pool('4', '8', '201'), presence: 0.2 },
+  { name: 'order', value: pool('3', '2.5', '11'), presence: 0.2 },
+  { name: 'strength', value: pool('0.5', '1'), presence: 0.1 },
+  { name: 'ppw-min', value: pool('6', '10', '20', '40', '2'), presence: 0.95 },
+  { name: 'ppw-max', value: pool('30', '60', '10'), presence: 0.3 },
+  { name: 'angle-max', value: pool('0', '30', '60', '85'), presence: 0.3 },
+  { name: 'dimensions', value: pool('1', '2', '3'), presence: 0.5 },
+  { name: 'courant', value: pool('0.3', '0.5', '0.57'), presence: 0.15 },
+  { name: 'index', value: pool('1', '1.5'), presence: 0.15 },
+  { name: 'sampling', value: pool('node', 'average', 'offset', 'lagged', 'all'), presence: 0.2 },
+  { name: 'kappa-max', value: pool('1', '3'), presence: 0.1 },
+  { name: 'alpha-max-norm', value: pool('0', '0.05'), presence: 0.1 },
+  { name: 'grid-sampling', value: pool('node', 'lagged', 'Average', 'x'), presence: 0.1 },
+  { name: 'json', presence: 0.6 },
+]);
+
+describe('property: hush verify exits 0 with finite output, 1 only for another grid convention, or 2 with one line', () => {
+  it(`${VERIFY_RUNS} calls, each bounded by --max-work ${VERIFY_WORK}`, async () => {
+    await fc.assert(
+      fc.asyncProperty(verifyArgs, async (a) => {
+        const argv = ['verify', ...a, '--max-work', String(VERIFY_WORK)];
+        const c = await run(argv);
+        if (c.code === 1) expect(argv, `${show(argv)}: a disagreement without --grid-sampling`).toContain('--grid-sampling');
+        checkCall('verify', argv, { ...c, code: c.code === 1 ? 0 : c.code }, ONE_SEARCH, ['predicted', 'measured', 'worst_ppw', 'worst_angle_deg']);
+        if (c.code !== 2 && argv.includes('--json') && !argv.includes('--help') && !argv.includes('-h')) expect(JSON.parse(c.out[0]).cell_updates).toBeLessThanOrEqual(VERIFY_WORK);
+      }),
+      params(VERIFY_RUNS),
+    );
+    expect(tallies.verify.codes[0]).toBeGreaterThan(VERIFY_RUNS * 0.05);
   });
 });
 

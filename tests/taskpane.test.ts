@@ -211,7 +211,7 @@ describe('verification runs', () => {
 
   it('skips the 2-D run for a 1-D study and says why', () => {
     const c = chooseRuns({ layers: 5, order: 3 }, { ...grid, dimensions: 1, courant: 0.9, index: 1, angleMaxDeg: 0 });
-    expect(c.twoD).toEqual({ skipped: 'a 1-D study has no oblique incidence' });
+    expect(c.twoD).toEqual({ skipped: 'a 1-D study has no oblique incidence', reason: 'not-needed' });
   });
 
   it('states the largest relative difference', () => {

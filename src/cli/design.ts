@@ -60,9 +60,8 @@ function toJson(d: DesignResult, courant: number) {
   };
 }
 
-/** `hush design`: the thinnest absorber meeting a target over a band and angles. */
-export function designCommand(argv: string[], io: CommandIO): number {
-  const o = new Options(designSpec, argv);
+/** The design inputs as `hush design` reads them (any command whose spec lists designSpec's fields), and the grid they describe. */
+export function readDesignOptions(o: Options): { options: DesignResult[]; courant: number; dimensions: number; index: number; absorberIndices: number[] | undefined } {
   const dimensions = o.get<'count'>('dimensions') ?? 3;
   const courant = o.get<'number'>('courant') ?? defaultCourant(dimensions);
   const ppwMin = o.required<'number'>('ppw_min');
@@ -91,6 +90,13 @@ export function designCommand(argv: string[], io: CommandIO): number {
     alphaOrder: o.get<'number'>('alpha_order'),
     maxLayers: o.get<'count'>('max_layers'),
   });
+  return { options, courant, dimensions, index, absorberIndices };
+}
+
+/** `hush design`: the thinnest absorber meeting a target over a band and angles. */
+export function designCommand(argv: string[], io: CommandIO): number {
+  const o = new Options(designSpec, argv);
+  const { options, courant, dimensions } = readDesignOptions(o);
   for (const n of o.notes) io.err(`hush design: note: ${n}`);
   const all = o.flag('all');
   if (o.flag('json')) {

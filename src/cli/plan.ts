@@ -21,7 +21,8 @@ import {
   type Table,
 } from '../plan/table-file';
 import { parseArgs, stringOption, UsageError } from './args';
-import { fmt, processIO, type CommandIO } from './io';
+import { fmt, type CommandIO } from './io';
+import { progressBar } from './progress';
 
 export const planUsage =
   'hush plan TABLE.csv|TABLE.xlsx [--sheet NAME|N] [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; ' +
@@ -51,15 +52,8 @@ function checkOut(table: string, out: string, replace: boolean): void {
 
 /** Progress on a terminal: a bar, rows done, rate and time left (from the rows done so far). */
 function progress(io: CommandIO, now: () => number = () => Date.now()): ((done: number, total: number) => void) | null {
-  const tty = io === processIO ? Boolean(process.stderr.isTTY) : io.isTTY;
-  if (!tty) return null;
-  const write = io === processIO ? (t: string) => process.stderr.write(t) : (t: string) => io.err(t);
   const start = now();
-  return (done, total) => {
-    const width = 30;
-    const filled = Math.round((width * done) / total);
-    write(`\r[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${rateText(done, total, (now() - start) / 1000)}${done === total ? '\n' : ''}`);
-  };
+  return progressBar(io, (done, total) => `${done}/${total}${rateText(done, total, (now() - start) / 1000)}`);
 }
 
 /** " · 12.3 rows/s · 40 s left" once a rate can be measured, else "". */

@@ -24,6 +24,7 @@ export {
   type WaveSpec,
   type SamplingConvention,
   SAMPLING_CONVENTIONS,
+  ALL_SAMPLINGS,
   // cost (physics.md §5)
   runCost,
   type Precision,

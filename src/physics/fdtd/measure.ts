@@ -20,7 +20,7 @@
  * expose the same run step by step.
  */
 import { cpmlCoefficients, type CpmlCoefficients } from '../cpml';
-import { resolveDesign, type AbsorberDesign, type ResolvedDesign } from '../grading';
+import { checkSampling, resolveDesign, type AbsorberDesign, type ResolvedDesign, type SamplingConvention } from '../grading';
 import { DEFAULT_COURANT, checkCourant } from '../courant';
 import { checkPpw, discreteAngle, discreteWavenumberUnchecked, evanescentFactorUnchecked } from '../dispersion';
 import { reflectionAtTransverseFactor } from '../reflection';
@@ -98,6 +98,13 @@ export interface MeasureOptions1D {
    * Far cheaper for long records (high cells per wavelength, angles near grazing).
    */
   reference?: 'long' | 'terminated';
+  /**
+   * How the time-domain grid samples the absorber's profiles onto its nodes
+   * (cpml.ts); default the design's own convention. The prediction stays the
+   * exact model for the design's convention, so another one here measures how
+   * far a grid of that convention departs from it.
+   */
+  gridSampling?: SamplingConvention;
 }
 
 export interface MeasureOptions2D extends MeasureOptions1D {
@@ -171,6 +178,9 @@ export interface ReflectionMeasurement {
   evanescent: boolean;
   /** The reference run used (MeasureOptions1D.reference). */
   reference: 'long' | 'terminated';
+  /** The convention the prediction is exact for (the design's) and the one the grid sampled its profiles with. */
+  sampling: SamplingConvention;
+  gridSampling: SamplingConvention;
   courant: number;
   courantMedium: number;
   index: number;
@@ -230,7 +240,10 @@ function chooseFrequencies(spec: number | readonly number[] | undefined, ppwLow:
 }
 
 interface CommonPlan {
+  /** The design the prediction is for, */
   design: ResolvedDesign;
+  /** … and the one the grid runs (the same unless gridSampling differs). */
+  gridDesign: ResolvedDesign;
   courant: number;
   courantMedium: number;
   index: number;
@@ -257,7 +270,8 @@ function checkCommon(design: AbsorberDesign, opts: MeasureOptions1D, dims: 1 | 2
   if (reference !== 'long' && reference !== 'terminated') {
     throw new HushInputError('reference', `reference must be "long" or "terminated" (got ${JSON.stringify(reference)})`, 'value');
   }
-  return { design: d, courant, courantMedium: sm, index, omegas, monitorDistance, ppwLow, ppwHigh, reference };
+  const gridDesign = opts.gridSampling === undefined ? d : { ...d, sampling: checkSampling(opts.gridSampling) };
+  return { design: d, gridDesign, courant, courantMedium: sm, index, omegas, monitorDistance, ppwLow, ppwHigh, reference };
 }
 
 /**
@@ -421,6 +435,8 @@ function analyse(
     engine: a.engine,
     evanescent: a.evanescent,
     reference: c.reference,
+    sampling: c.design.sampling,
+    gridSampling: c.gridDesign.sampling,
     courant: c.courant,
     courantMedium: sm,
     index: c.index,
@@ -462,7 +478,7 @@ export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions
   const c = checkCommon(design, opts, 1, 0);
   const t = planTiming(c, 0);
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
-  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const right = cpmlCoefficients(c.gridDesign, c.courantMedium);
   const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
   const abs = new CpmlLine({ cells: near, courantMedium: c.courantMedium, left, right });
   const rg = referenceGeometry(c, t, 0);
@@ -557,7 +573,7 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
     return modeRun(c, t, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes, engine: 'reduced', evanescent: false }, LEFT_GAP);
   }
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
-  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const right = cpmlCoefficients(c.gridDesign, c.courantMedium);
   const near = LEFT_GAP + SOURCE_TO_MONITOR + c.monitorDistance;
   const rg = referenceGeometry(c, t, 0);
   checkWork(t.steps, (2 * (left.layers + 1) + near + c.design.layers + LEFT_GAP + rg.cells + (rg.right ? rg.right.layers : 0)) * ny);
@@ -603,7 +619,7 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
 function modeRun(c: CommonPlan, t: Timing, a: Analysis, leftGap: number, rightGap = 0): MeasurementRun {
   const K = 2 * Math.sin(a.kt / 2);
   const left = cpmlCoefficients(resolveDesign(FAR_LEFT_TERMINATION), c.courantMedium);
-  const right = cpmlCoefficients(c.design, c.courantMedium);
+  const right = cpmlCoefficients(c.gridDesign, c.courantMedium);
   const near = leftGap + SOURCE_TO_MONITOR + c.monitorDistance;
   const rg = referenceGeometry(c, t, rightGap);
   checkWork(t.steps, 2 * (left.layers + 1) + near + c.design.layers + leftGap + rg.cells + (rg.right ? rg.right.layers : 0));
