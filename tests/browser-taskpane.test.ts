@@ -50,6 +50,7 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
   let origin = '';
   const requests: string[] = [];
   const pageErrors: string[] = [];
+  const failed: string[] = [];
   let userDir = '';
 
   beforeAll(async () => {
@@ -68,6 +69,7 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
       viewport: { width: 380, height: 900 },
     });
     context.on('request', (r) => requests.push(r.url()));
+    context.on('response', (r) => r.status() >= 400 && failed.push(`${r.status()} ${r.url()}`));
     page = context.pages()[0] ?? (await context.newPage());
     page.setDefaultTimeout(HUNG);
     page.on('pageerror', (e) => pageErrors.push(`${e.message}\n${e.stack ?? ''}`));
@@ -83,12 +85,15 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     if (userDir) fs.rmSync(userDir, { recursive: true, force: true });
   });
 
-  it('lists one option per grading order (no CFS alternative for a band this short)', async () => {
+  it("lists one option per grading order and CFS α (the design's own α and none)", async () => {
     const plan = planRow(demoRow());
-    // derived: 3 default orders × 1 α choice (the long end, 36 cells per wavelength, is under the CFS threshold of 40).
+    // derived: 3 default orders × 2 α choices — the design chose a CFS α > 0 for this row's near field, and the
+    // pane sets α = 0 beside it for comparison (the band's long end, 36 cells per wavelength, is under the CFS
+    // threshold of 40 that would otherwise add a suggested α).
     expect(plan.inputs.orders).toEqual([2, 3, 4]);
     expect(plan.grid.ppwLong).toBeLessThan(40);
-    expect(await page.locator('#options tbody tr').count()).toBe(3);
+    expect(plan.design.alphaMaxNorm).toBeGreaterThan(0);
+    expect(await page.locator('#options tbody tr').count()).toBe(6);
     expect(await page.locator('#options tbody tr.recommended').count()).toBe(1);
   });
 
@@ -96,11 +101,15 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     const plan = planRow(demoRow()); // independent computation: the plan API in Node
     const row = page.locator('#options tbody tr.recommended');
     const value = async (field: string) => Number(await row.locator(`td[data-field="${field}"]`).getAttribute('data-value'));
+    // Integers exactly. Real numbers to 1e-11 relative: Chromium's V8 and Node's V8 may be different
+    // versions, and ECMA-262 (§21.3.2, "implementation-approximated") leaves Math.exp, Math.log, Math.pow…
+    // to each engine's own approximation, so results agree to rounding, not bit for bit (seen: 4e-14 relative).
+    const close = (got: number, want: number) => expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-11 * Math.abs(want));
     expect(await value('layers')).toBe(plan.design.layers);
-    expect(await value('worst')).toBe(plan.design.worstAmplitude);
-    expect(await value('overhead')).toBe(plan.cost.domain.overheadPercent);
-    expect(await value('runtime')).toBe(plan.cost.runtime!.totalSeconds / 3600);
-    expect(await value('cost')).toBe(plan.cost.runtime!.cost);
+    close(await value('worst'), plan.design.worstAmplitude);
+    close(await value('overhead'), plan.cost.domain.overheadPercent);
+    close(await value('runtime'), plan.cost.runtime!.totalSeconds / 3600);
+    close(await value('cost'), plan.cost.runtime!.cost!);
     expect(await row.textContent()).toContain(`m = ${plan.design.order}`);
   });
 
@@ -142,11 +151,25 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
   });
 
   it('cancels a running verification', async () => {
-    await page.click('#verify');
-    await expect.poll(async () => page.locator('#cancel').isEnabled(), { timeout: HUNG }).toBe(true);
-    await page.click('#cancel');
+    // The demo row's runs take about 0.1 s in Chromium, shorter than a round trip of the test to the page:
+    // waiting for Cancel to be enabled and then clicking it would find it disabled again (playwright's click
+    // then waits for it forever). So Verify and Cancel are pressed in one task of the page, while the run
+    // has surely started and not ended (runVerify enables Cancel before its first await).
+    const during = await page.evaluate(() => {
+      (document.getElementById('verify') as HTMLButtonElement).click();
+      const cancel = document.getElementById('cancel') as HTMLButtonElement;
+      const enabled = !cancel.disabled;
+      cancel.click();
+      return enabled;
+    });
+    expect(during).toBe(true);
     await expect.poll(async () => page.textContent('#verify-stage'), { timeout: HUNG }).toBe('cancelled');
     expect(await page.locator('#verify').isEnabled()).toBe(true);
+    // The cancelled run leaves no result behind, even once its worker has answered.
+    await page.waitForTimeout(1000);
+    expect(await page.textContent('#verify-stage')).toBe('cancelled');
+    expect(await page.getAttribute('#verify-result', 'data-difference')).toBeNull();
+    expect(await page.textContent('#verify-result')).toBe('');
   });
 
   it("applies the design to exactly that row's output cells", async () => {
@@ -171,7 +194,10 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
       expected.push(`${DEMO_ROW}:${c}`);
     });
     expect(changed.sort()).toEqual(expected.sort());
-    expect(await page.textContent('#apply-result')).toContain(`Wrote ${OUTPUT_NAMES.length} output cells`);
+    // One line, the cells behind a disclosure (closed until asked).
+    expect(await page.textContent('#apply-result .headline')).toBe(`Wrote ${OUTPUT_NAMES.length} cells of row ${DEMO_ROW + 1}.`);
+    expect(await page.locator('#apply-result details').getAttribute('open')).toBeNull();
+    expect(await page.locator('#apply-result details p').first().isVisible()).toBe(false);
   });
 
   it('saves screenshots in light and dark theme', async () => {
@@ -187,12 +213,14 @@ describe.skipIf(!haveBrowser)('task pane in Chromium (demo project outside Excel
     }
   });
 
-  it('makes no request to any origin but its own, and the pane raises no errors', () => {
+  it('makes no request to any origin but its own, finds everything it asks for, and raises no errors', () => {
     const foreign = requests.filter((u) => new URL(u).origin !== origin);
     expect(foreign).toEqual([]);
     expect(requests.length).toBeGreaterThan(3);
-    // Errors from the worksheet-functions chunk outside Excel (no CustomFunctions runtime) belong to that chunk, not the pane.
-    const paneErrors = pageErrors.filter((e) => !/functions\.js/.test(e));
-    expect(paneErrors).toEqual([]);
+    // No 404 (the favicon is a <link rel="icon"> to an icon the build copies).
+    expect(failed).toEqual([]);
+    expect(requests.some((u) => /icon-32\.png$/.test(u))).toBe(true);
+    // Not even the worksheet-functions chunk: outside Excel it skips its registration (no CustomFunctions runtime).
+    expect(pageErrors).toEqual([]);
   });
 });

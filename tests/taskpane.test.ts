@@ -14,7 +14,11 @@ import { DEMO_PROJECT_CSV } from '../taskpane/demo-table';
 import { CFS_RELEVANT_PPW, TABLE_SCHEMA, alphaChoices, designAlphaMax, optionPlans, outputValues, studyPlan, suggestedAlphaMax } from '../taskpane/plan-adapter';
 import { alignSeries, linearTicks, logRange } from '../taskpane/charts';
 import { angleAxisEnd, ppwAxis, reflectionVsAngle, reflectionVsPpw } from '../taskpane/curves';
-import { hours, money, percent, sig } from '../taskpane/format';
+import { applyHeadline, decibels, hours, money, percent, sig, themeLabel } from '../taskpane/format';
+import { VALIDATED_ROWS, insertStarterTable, starterSheet, type ExcelRunner } from '../taskpane/insert-table';
+import { EXCEL_API_NEEDS, checkExcelApi } from '../taskpane/requirements';
+import { starterTable } from '../src/plan/starter';
+import { OUTPUT_COLUMNS } from '../src/plan';
 import { luminance } from '../taskpane/theme';
 import { largestRelativeDifference } from '../taskpane/verify-protocol';
 import { PANE_BUDGET_1D, PANE_BUDGET_2D, chooseRuns, measuredPpw, widenedBand } from '../taskpane/verify-plan';
@@ -171,6 +175,138 @@ describe('formatting', () => {
     expect(hours(100)).toBe('4.17 d');
     expect(money(1234.5)).toBe('1,234.50');
     expect(money(0.00555)).toBe('0.00555');
+  });
+
+  it('gives reflections in decibels, 20·log10|r| (the amplitude convention)', () => {
+    // derived: 20·log10(1e-3) = −60; 20·log10(0.5) = −6.0206.
+    expect(decibels(1e-3)).toBe('\u221260.0 dB');
+    expect(decibels(0.5)).toBe('\u22126.0 dB');
+    expect(decibels(0)).toBe('—');
+  });
+
+  it("says Apply's result in one line, with the row from the cells' addresses", () => {
+    const cells = Array.from({ length: 35 }, (_, k) => `Sheet1!${String.fromCharCode(72 + (k % 10))}${1}`);
+    expect(applyHeadline(cells)).toBe('Wrote 35 cells of row 1');
+    expect(applyHeadline(['demo!AO5'])).toBe('Wrote 1 cell of row 5');
+  });
+
+  it('labels the theme button with its setting and what a press does (auto → light → dark → auto)', () => {
+    expect(themeLabel('auto', 'dark').text).toBe('Theme: auto (dark)');
+    expect(themeLabel('auto', 'dark').aria).toContain('switch to light');
+    expect(themeLabel('light', 'light').aria).toContain('switch to dark');
+    expect(themeLabel('dark', 'dark').aria).toContain('switch to auto');
+  });
+});
+
+describe('Insert project table', () => {
+  const table = starterTable();
+  const s = starterSheet(table);
+
+  it('lays out the header (inputs, then outputs), the example row, choice lists and the HUSH.PLAN formula', () => {
+    expect(s.width).toBe(table.inputs.length + table.outputs.length);
+    expect(s.header.slice(0, s.inputCount)).toEqual(table.inputs.map((c) => c.name));
+    // HUSH.PLAN spills its values in OUTPUT_COLUMNS order, so the headers beside the formula must be in that order.
+    expect(table.outputs.map((o) => o.header).length).toBe(OUTPUT_COLUMNS.length);
+    expect(s.example[table.inputs.findIndex((c) => c.name === 'band_short')]).toBe('2.2 GHz');
+    expect(s.example.length).toBe(s.inputCount);
+    // Columns by spreadsheet lettering (common practice: A…Z, AA…): the formula sits in the first output column.
+    const last = (n: number) => (n <= 26 ? String.fromCharCode(64 + n) : String.fromCharCode(64 + Math.floor((n - 1) / 26)) + String.fromCharCode(65 + ((n - 1) % 26)));
+    expect(s.formula.address).toBe(`${last(s.inputCount + 1)}2`);
+    expect(s.formula.formula).toBe(`=HUSH.PLAN($A$1:$${last(s.inputCount)}$1,A2:${last(s.inputCount)}2)`);
+    expect(s.area).toBe(`A1:${last(s.width)}${VALIDATED_ROWS + 1}`);
+    const choice = table.inputs.filter((c) => c.choices);
+    expect(s.validations.length).toBe(choice.length);
+    const phase = table.inputs.findIndex((c) => c.name === 'phase');
+    expect(s.validations).toContainEqual({ address: `${last(phase + 1)}2:${last(phase + 1)}201`, source: 'worst,random' });
+    expect(s.notes.length).toBe(s.width);
+    expect(s.notes[0]).toEqual({ address: 'A1', text: table.inputs[0].note });
+  });
+
+  /** A stand-in for Excel.run that records what a batch writes, with a sheet whose area holds `used`. */
+  function fakeExcel(used: string | null) {
+    const log: string[] = [];
+    const range = (address: string) => ({
+      getUsedRangeOrNullObject: () => ({ load: () => undefined, isNullObject: used === null, address: used ?? '' }),
+      set values(v: unknown[][]) {
+        log.push(`values ${address} ${v[0].length}`);
+      },
+      set formulas(v: string[][]) {
+        log.push(`formula ${address} ${v[0][0]}`);
+      },
+      clear: (what: string) => log.push(`clear ${address} ${what}`),
+      dataValidation: {
+        clear: () => undefined,
+        set rule(r: { list: { source: string } }) {
+          log.push(`list ${address} ${r.list.source}`);
+        },
+      },
+      format: { font: { set bold(_: boolean) {} } },
+    });
+    const sheet = {
+      name: 'Sheet1',
+      load: () => undefined,
+      getRange: range,
+      getRangeByIndexes: (r: number, c: number, h: number, w: number) => range(`${r},${c},${h},${w}`),
+      notes: { add: () => log.push('note'), getItemOrNullObject: () => ({ load: () => undefined, isNullObject: true }) },
+    };
+    let syncs = 0;
+    const context = { workbook: { worksheets: { getActiveWorksheet: () => sheet } }, sync: async () => void syncs++ };
+    const excel: ExcelRunner = { run: (batch) => batch(context as unknown as Excel.RequestContext) };
+    return { excel, log, syncs: () => syncs };
+  }
+
+  it('writes into an empty area without asking, in one batch', async () => {
+    const f = fakeExcel(null);
+    let asked = 0;
+    const r = await insertStarterTable(f.excel, async () => (asked++, true), false, s);
+    expect(asked).toBe(0);
+    expect(r).toMatchObject({ written: true, sheet: 'Sheet1', notes: false, replaced: null });
+    expect(f.log).toContain(`values 0,0,1,${s.width} ${s.width}`);
+    expect(f.log).toContain(`values 1,0,1,${s.inputCount} ${s.inputCount}`);
+    expect(f.log).toContain(`formula ${s.formula.address} ${s.formula.formula}`);
+    expect(f.log.filter((l) => l.startsWith('list')).length).toBe(s.validations.length);
+    expect(f.log).not.toContain('note');
+    expect(f.log.some((l) => l.startsWith('clear'))).toBe(false);
+  });
+
+  it('asks before writing over a non-empty area, and writes nothing when refused', async () => {
+    const f = fakeExcel('Sheet1!B3:C4');
+    const questions: string[] = [];
+    const r = await insertStarterTable(f.excel, async (q) => (questions.push(q), false), true, s);
+    expect(questions.length).toBe(1);
+    expect(questions[0]).toContain('Sheet1!B3:C4 is not empty');
+    expect(r.written).toBe(false);
+    expect(f.log).toEqual([]);
+    const g = fakeExcel('Sheet1!B3:C4');
+    const w = await insertStarterTable(g.excel, async () => true, true, s);
+    expect(w).toMatchObject({ written: true, notes: true, replaced: 'Sheet1!B3:C4' });
+    expect(g.log[0]).toBe(`clear ${s.area} Contents`);
+    expect(g.log.filter((l) => l === 'note').length).toBe(s.width);
+  });
+});
+
+describe('Excel API requirement check', () => {
+  it('names the missing sets and the pane work they stop; notes (1.18) are optional', () => {
+    const upTo = (max: number) => (_: string, v: string) => Number(v.split('.')[1]) <= max;
+    expect(checkExcelApi(upTo(20)).message).toBe('');
+    const old = checkExcelApi(upTo(7));
+    expect(old.missing.map((n) => n.version)).toEqual(['1.8', '1.9']);
+    expect(old.message).toContain('lacks ExcelApi 1.8, 1.9');
+    const no18 = checkExcelApi(upTo(17));
+    expect(no18.missing).toEqual([]);
+    expect(no18.skipped.map((n) => n.version)).toEqual(['1.18']);
+    expect(no18.message).toContain('header notes');
+  });
+
+  it('covers every Excel call of the pane and the Office workbook', () => {
+    const src = ['taskpane/insert-table.ts', 'src/workbook/office.ts'].map((f) => fs.readFileSync(path.join(ROOT, f), 'utf8')).join('\n');
+    // Calls above ExcelApi 1.1, by the requirement set on each one's page of the Excel JavaScript API reference.
+    const calls = ['getUsedRangeOrNullObject', 'getSurroundingRegion', 'getRangeByIndexes', 'dataValidation', 'getTables', 'getFirst', 'notes'];
+    const needs = EXCEL_API_NEEDS.map((n) => n.use).join(' ');
+    for (const c of calls) {
+      expect(src, c).toContain(c);
+      expect(needs, c).toContain(c);
+    }
   });
 });
 
