@@ -47,11 +47,10 @@ export function decibels(amplitude: number): string {
   return `${db < 0 ? '\u2212' : ''}${Math.abs(db).toFixed(1)} dB`;
 }
 
-/** Apply's one-line confirmation: "Wrote 35 cells of row 5" (the row number from the first cell's address). */
-export function applyHeadline(cells: readonly string[]): string {
-  if (cells.length === 0) return 'Wrote no cells (the table has no output column)';
-  const rows = [...new Set(cells.map((c) => /(\d+)$/.exec(c)?.[1] ?? '?'))];
-  return `Wrote ${cells.length} ${cells.length === 1 ? 'cell' : 'cells'} of row ${rows.join(', ')}`;
+/** Apply's one-line confirmation: "Wrote 35 cells of row 5". */
+export function applyHeadline(count: number, row: number): string {
+  if (count === 0) return `Wrote nothing in row ${row}: the table has no output column`;
+  return `Wrote ${count} ${count === 1 ? 'cell' : 'cells'} of row ${row}`;
 }
 
 /**
@@ -60,6 +59,7 @@ export function applyHeadline(cells: readonly string[]): string {
  */
 export function themeLabel(setting: 'auto' | 'light' | 'dark', shown: 'light' | 'dark'): { text: string; aria: string } {
   const next = setting === 'auto' ? 'light' : setting === 'light' ? 'dark' : 'auto';
-  const text = setting === 'auto' ? `Theme: auto (${shown})` : `Theme: ${setting}`;
-  return { text, aria: `${text}. Press to switch to ${next} (order: auto, light, dark).` };
+  const text = `Theme: ${setting}`;
+  const now = setting === 'auto' ? `Theme: auto (following Office or the system: ${shown} now)` : text;
+  return { text, aria: `${now}. Press to switch to ${next} (order: auto, light, dark).` };
 }

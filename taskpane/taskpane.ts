@@ -17,7 +17,6 @@ import { DEMO_PROJECT_CSV } from './demo-table';
 import { byId, el, show } from './dom';
 import { applyHeadline, decibels, hours, money, percent, sig, themeLabel } from './format';
 import { OUTPUT_COLUMNS, TABLE_SCHEMA, optionPlans, outputValues, studyPlan, type OptionPlan, type Plan } from './plan-adapter';
-import { insertStarterTable } from './insert-table';
 import { checkExcelApi } from './requirements';
 import { renderStudy } from './study-view';
 import { chartColours, officeTheme, systemTheme, type Theme } from './theme';
@@ -181,6 +180,8 @@ async function insertTable(notes: boolean): Promise<void> {
   out.className = 'result';
   out.textContent = '';
   try {
+    // Loaded on first use: the starter table and its notes are not part of the page's own JavaScript.
+    const { insertStarterTable } = await import(/* webpackChunkName: "insert-table" */ './insert-table');
     const r = await insertStarterTable(Excel, askInPane, notes);
     out.className = `result ${r.written ? 'ok' : ''}`;
     out.textContent = r.written
@@ -247,7 +248,7 @@ function optionCell(o: OptionPlan): HTMLElement {
 /** What the cost axis shows: the price when the row has one, else the runtime, else the cell count. */
 function costMeasure(plan: Plan): { label: string; value: (p: Plan) => number | null } {
   if (plan.cost.runtime && plan.cost.runtime.cost !== null) {
-    return { label: "cost (estimate, in the price's currency)", value: (p) => p.cost.runtime?.cost ?? null };
+    return { label: "cost (estimate, price's currency)", value: (p) => p.cost.runtime?.cost ?? null };
   }
   if (plan.cost.runtime) {
     // A unit that keeps the ticks short: hours, minutes or seconds, from this study's runtime.
@@ -280,8 +281,14 @@ function renderOptions(): void {
         cell('layers', p.design.layers, String(p.design.layers)),
         worst,
         cell('overhead', p.cost.domain.overheadPercent, percent(p.cost.domain.overheadPercent)),
-        cell('runtime', rt ? rt.totalSeconds / 3600 : null, rt ? hours(rt.totalSeconds / 3600) : '—'),
-        cell('cost', rt ? rt.cost : null, rt && rt.cost !== null ? money(rt.cost) : '—'),
+        // Runtime and cost share a column (two lines) so the table fits a 320 px pane.
+        el(
+          'td',
+          {},
+          el('span', { 'data-field': 'runtime', 'data-value': rt ? String(rt.totalSeconds / 3600) : '' }, rt ? hours(rt.totalSeconds / 3600) : '—'),
+          el('br'),
+          el('span', { class: 'small', 'data-field': 'cost', 'data-value': rt && rt.cost !== null ? String(rt.cost) : '' }, rt && rt.cost !== null ? money(rt.cost) : '—'),
+        ),
       );
       tr.addEventListener('click', (ev) => {
         if (ev.target !== radio) {
@@ -291,7 +298,7 @@ function renderOptions(): void {
       });
     } else {
       tr.classList.add('unavailable');
-      tr.appendChild(el('td', { colspan: '5', class: 'small' }, o.error ?? 'no design'));
+      tr.appendChild(el('td', { colspan: '4', class: 'small' }, o.error ?? 'no design'));
     }
     if (o.recommended) tr.classList.add('recommended');
     if (k === state.highlighted) tr.classList.add('highlighted');
@@ -329,7 +336,14 @@ function renderCharts(): void {
   const colours = chartColours();
   const width = chartWidth();
   const target = plan.requiredReflection;
-  const targetLine = { colour: colours.target, label: `target |r| = ${sig(target)}` };
+  const targetLine = { kind: 'target' as const, colour: colours.target, label: `target |r| = ${sig(target)}` };
+  const angleMax = plan.inputs.angleMaxDeg;
+  const angleLine = { kind: 'angle' as const, colour: colours.angle, label: `study's largest angle, ${sig(angleMax)}°` };
+  const bandLine = {
+    kind: 'band' as const,
+    colour: colours.band,
+    label: plan.grid.ppwLong === plan.grid.ppwShort ? `study's frequency, ${sig(plan.grid.ppwShort)} cells/λ` : `band edges, ${sig(plan.grid.ppwShort)} and ${sig(plan.grid.ppwLong)} cells/λ`,
+  };
 
   // Cost against worst reflection, every option a point.
   const measure = costMeasure(plan);
@@ -366,8 +380,10 @@ function renderCharts(): void {
   const angleSpec: ChartSpec = {
     title: `Amplitude reflection against angle of incidence at ${sig(ppwAt)} cells per wavelength; target ${sig(target)}`,
     xLabel: 'angle of incidence (°)',
+    xTight: true,
     yLabel: '|r| (amplitude ratio)',
     yLog: true,
+    yDb: true,
     yInclude: [target],
     series: [
       { label: `discrete grid, ${sig(ppwAt)} cells/λ`, x: va.x, y: va.discrete, colour: colours.discrete },
@@ -375,7 +391,7 @@ function renderCharts(): void {
     ],
     lines: [
       { axis: 'y', value: target, ...targetLine },
-      ...(plan.inputs.angleMaxDeg > 0 ? [{ axis: 'x' as const, value: plan.inputs.angleMaxDeg, ...targetLine }] : []),
+      ...(angleMax > 0 ? [{ axis: 'x' as const, value: angleMax, ...angleLine }] : []),
     ],
   };
   // A 1-D grid has no oblique incidence: no angle chart, and the caption says why.
@@ -399,6 +415,7 @@ function renderCharts(): void {
     xLog: true,
     xTight: true,
     yLog: true,
+    yDb: true,
     yInclude: [target],
     series: [
       { label: 'discrete, 0°', x: v0.x, y: v0.discrete, colour: colours.discrete },
@@ -413,8 +430,8 @@ function renderCharts(): void {
     lines: [
       { axis: 'y', value: target, ...targetLine },
       // The study's band, where the axis is wider than it.
-      { axis: 'x', value: plan.grid.ppwShort, ...targetLine },
-      ...(plan.grid.ppwLong !== plan.grid.ppwShort ? [{ axis: 'x' as const, value: plan.grid.ppwLong, ...targetLine }] : []),
+      { axis: 'x', value: plan.grid.ppwShort, ...bandLine },
+      ...(plan.grid.ppwLong !== plan.grid.ppwShort ? [{ axis: 'x' as const, value: plan.grid.ppwLong, ...bandLine }] : []),
     ],
   };
   state.charts.push(renderChart(byId('chart-ppw'), ppwSpec, colours, width));
@@ -524,7 +541,7 @@ async function apply(): Promise<void> {
     out.textContent = '';
     // One line to read; the cells written (and any output without a column) behind a disclosure.
     out.append(
-      el('span', { class: 'headline' }, `${applyHeadline(report.cells)}.`),
+      el('span', { class: 'headline' }, `${applyHeadline(report.cells.length, report.row)}.`),
       el(
         'details',
         { class: 'written-cells' },

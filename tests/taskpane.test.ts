@@ -12,7 +12,7 @@ import { parseCsv } from '../src/plan/csv';
 import { OUTPUT_NAMES, planRow, planToRow, rowFromTable } from '../src/plan';
 import { DEMO_PROJECT_CSV } from '../taskpane/demo-table';
 import { CFS_RELEVANT_PPW, TABLE_SCHEMA, alphaChoices, designAlphaMax, optionPlans, outputValues, studyPlan, suggestedAlphaMax } from '../taskpane/plan-adapter';
-import { alignSeries, linearTicks, logRange } from '../taskpane/charts';
+import { decadeLabel, layoutChart, linearTicks, logRange, niceTicks, type ChartSpec } from '../taskpane/charts';
 import { angleAxisEnd, ppwAxis, reflectionVsAngle, reflectionVsPpw } from '../taskpane/curves';
 import { applyHeadline, decibels, hours, money, percent, sig, themeLabel } from '../taskpane/format';
 import { VALIDATED_ROWS, insertStarterTable, starterSheet, type ExcelRunner } from '../taskpane/insert-table';
@@ -145,16 +145,40 @@ describe('curves', () => {
 });
 
 describe('chart helpers', () => {
-  it('align series on the union of their x values', () => {
-    const d = alignSeries([
-      { x: [1, 3], y: [10, 30] },
-      { x: [2, 3], y: [20, null] },
-    ]);
-    expect(d.x).toEqual([1, 2, 3]);
-    expect(d.ys).toEqual([
-      [10, null, 30],
-      [null, 20, null],
-    ]);
+  it('lay out a log |r| chart with its dB axis on the same scale (dB = 20·log10|r|)', () => {
+    const spec: ChartSpec = {
+      title: 't',
+      xLabel: 'angle of incidence (°)',
+      yLabel: '|r| (amplitude ratio)',
+      yLog: true,
+      yDb: true,
+      series: [{ label: 'a', x: [0, 30, 60, 85], y: [1e-5, 2e-5, null, 0.3], colour: '#000' }],
+      lines: [
+        { axis: 'y', value: 1e-3, kind: 'target', colour: '#f00', label: 'target' },
+        { axis: 'x', value: 60, kind: 'angle', colour: '#0f0', label: 'angle' },
+      ],
+    };
+    const L = layoutChart(spec, 296, 220);
+    // The y range is whole decades around the data and the target: 1e-5 … 1.
+    expect(L.yTicks.map((t) => t.label)).toEqual(['1e-5', '1e-4', '1e-3', '0.01', '0.1', '1']);
+    // derived: |r| = 1e-3 is −60 dB, so the −60 dB tick sits exactly at the 0.001 tick.
+    const db60 = L.dbTicks.find((t) => t.label === '\u221260');
+    const r3 = L.yTicks.find((t) => t.label === '1e-3');
+    expect(db60 && r3 && Math.abs(db60.y - r3.y)).toBeLessThan(1e-9);
+    // The null point splits the line in two.
+    expect(L.series[0].paths.map((p) => p.length)).toEqual([2, 1]);
+    // Everything stays inside the chart: tick labels at ~0.6 em a character, titles above the plot.
+    expect(L.plot.left).toBeGreaterThanOrEqual(6 + 4 * 11 * 0.6);
+    expect(L.plot.right).toBeLessThan(296);
+    expect(L.yLabel.y).toBeLessThan(L.plot.top);
+    expect(L.lines.map((l) => l.spec.kind)).toEqual(['target', 'angle']);
+  });
+
+  it('place linear ticks at 1, 2 or 5 × 10^k and decade labels', () => {
+    expect(niceTicks(0, 1, 5)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
+    expect(niceTicks(20.3, 36.9, 4)).toEqual([25, 30, 35]);
+    expect(decadeLabel(-2)).toBe('0.01');
+    expect(decadeLabel(-3)).toBe('1e-3');
   });
 
   it('choose log ranges and tick labels', () => {
@@ -184,14 +208,14 @@ describe('formatting', () => {
     expect(decibels(0)).toBe('—');
   });
 
-  it("says Apply's result in one line, with the row from the cells' addresses", () => {
-    const cells = Array.from({ length: 35 }, (_, k) => `Sheet1!${String.fromCharCode(72 + (k % 10))}${1}`);
-    expect(applyHeadline(cells)).toBe('Wrote 35 cells of row 1');
-    expect(applyHeadline(['demo!AO5'])).toBe('Wrote 1 cell of row 5');
+  it("says Apply's result in one line", () => {
+    expect(applyHeadline(35, 1)).toBe('Wrote 35 cells of row 1');
+    expect(applyHeadline(1, 5)).toBe('Wrote 1 cell of row 5');
   });
 
   it('labels the theme button with its setting and what a press does (auto → light → dark → auto)', () => {
-    expect(themeLabel('auto', 'dark').text).toBe('Theme: auto (dark)');
+    expect(themeLabel('auto', 'dark').text).toBe('Theme: auto');
+    expect(themeLabel('auto', 'dark').aria).toContain('dark now');
     expect(themeLabel('auto', 'dark').aria).toContain('switch to light');
     expect(themeLabel('light', 'light').aria).toContain('switch to dark');
     expect(themeLabel('dark', 'dark').aria).toContain('switch to auto');
