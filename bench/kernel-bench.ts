@@ -1,12 +1,14 @@
 /**
  * Benchmark: the exact reflection evaluation (N = 12, one frequency and angle:
- * coefficients, node factors, recurrence) in the product's TypeScript versus
- * the same steps in plain C (bench/kernel.c), evaluations per CPU second.
+ * coefficients, inverse node factors, the sample's constants, recurrence) in
+ * the product's TypeScript versus the same steps and arithmetic in plain C
+ * (bench/kernel.c), evaluations per CPU second. Every evaluation does all
+ * four steps on both sides: nothing is carried from one evaluation to the next.
  * Goal (BENCHMARKS.md): TypeScript ≥ 1× the C compiled with cc -O2 (issue 13);
  * the -O3 -march=native build is shown beside it, without a goal.
  */
 import { resolveDesign, DEFAULT_COURANT } from '../src/physics';
-import { allocateCoefficients, allocateFactors, fillCoefficients, fillFactors, reflectionKernel } from '../src/physics/internal';
+import { allocateCoefficients, allocateFactors, fillCoefficients, fillFactors, fillSample, sampledKernel, SAMPLE_STRIDE } from '../src/physics/internal';
 import { compileC, O2, O3_NATIVE, vectorReport } from './c';
 import { cpuSeconds, fmt, interleaved, ratios, runC, summary, type Row } from './measure';
 
@@ -18,6 +20,7 @@ export function tsKernelRate(layers: number, seconds: number): { rate: number; c
   const coef = allocateCoefficients(256);
   const fac = allocateFactors(256);
   const out = new Float64Array(2);
+  const sample = new Float64Array(SAMPLE_STRIDE);
   const d = resolveDesign({ layers, order: 3 });
   const wdt = (2 * Math.PI * sm) / 20;
   let count = 0;
@@ -29,7 +32,8 @@ export function tsKernelRate(layers: number, seconds: number): { rate: number; c
       d.strength = 1 + 1e-9 * (count & 1023);
       fillCoefficients(d, sm, coef);
       fillFactors(coef, wdt, fac);
-      reflectionKernel(fac, layers, sm, wdt, 0, out);
+      fillSample(sm, wdt, 0, sample, 0);
+      sampledKernel(fac, layers, sample, 0, out, 0);
       sum += out[0] * out[0] + out[1] * out[1];
       count++;
     }

@@ -6,7 +6,10 @@
  *    default, exactly as the readers apply them (text after " — " on such a
  *    line is the function's own remark and is kept);
  *  - the README's table of project-table fields (between the markers
- *    <!-- fields:begin --> and <!-- fields:end -->).
+ *    <!-- fields:begin --> and <!-- fields:end -->);
+ *  - the README's table of worksheet functions with each one's worked
+ *    example and its exact result (<!-- functions:begin --> … end), from the
+ *    same JSDoc the add-in's metadata and help pages are generated from.
  * `npx tsx scripts/docs.ts` rewrites both; `--check` only reports drift
  * (tests/fields.test.ts runs the same check); `--examples` also rewrites the
  * printed results of the worksheet functions' worked examples after a
@@ -52,13 +55,38 @@ export function fieldTable(): string {
   return ['| field | meaning | bare number in | default |', '|---|---|---|---|', ...rows].join('\n');
 }
 
-export function syncReadme(readme: string): string {
-  const begin = '<!-- fields:begin -->';
-  const end = '<!-- fields:end -->';
-  const a = readme.indexOf(begin);
-  const b = readme.indexOf(end);
+/** Longest example result shown in the README's function table; longer ones point to the help page. */
+const MAX_README_RESULT = 160;
+
+/** The README's table of worksheet functions: signature, description, worked example → exact result. */
+export function functionTable(source: string): string {
+  const rows: string[] = [];
+  const block = /\/\*\*((?:(?!\/\*\*)[\s\S])*?)\*\/\s*export function (\w+)/g;
+  for (const m of source.matchAll(block)) {
+    const doc = m[1].split('\n').map((l) => l.replace(/^\s*\*\s?/, ''));
+    const id = doc.find((l) => l.startsWith('@customfunction'))?.split(/\s+/)[1];
+    if (!id) continue;
+    const description = doc.find((l) => l.trim() !== '' && !l.startsWith('@') && !l.startsWith('Example:')) ?? '';
+    const params = doc.filter((l) => l.startsWith('@param')).map((l) => l.split(/\s+/)[1]);
+    const example = doc.find((l) => l.startsWith('Example:'))?.slice('Example:'.length).trim() ?? '';
+    const shown = example.length > MAX_README_RESULT ? `${example.slice(0, example.indexOf(' → '))} → a row: see its help page` : example;
+    const cell = (t: string) => t.replace(/\|/g, '\\|');
+    rows.push(`| \`${id}(${params.join(', ')})\` | ${cell(description)} | \`${cell(shown)}\` |`);
+  }
+  return ['| function | what it returns | worked example → exact result |', '|---|---|---|', ...rows].join('\n');
+}
+
+function between(text: string, name: string, content: string): string {
+  const begin = `<!-- ${name}:begin -->`;
+  const end = `<!-- ${name}:end -->`;
+  const a = text.indexOf(begin);
+  const b = text.indexOf(end);
   if (a < 0 || b < a) throw new Error(`README.md lacks the markers ${begin} … ${end}`);
-  return `${readme.slice(0, a + begin.length)}\n${fieldTable()}\n${readme.slice(b)}`;
+  return `${text.slice(0, a + begin.length)}\n${content}\n${text.slice(b)}`;
+}
+
+export function syncReadme(readme: string, functions: string = readFileSync(FUNCTIONS_FILE, 'utf8')): string {
+  return between(between(readme, 'fields', fieldTable()), 'functions', functionTable(functions));
 }
 
 async function main(): Promise<void> {
@@ -78,7 +106,7 @@ async function main(): Promise<void> {
       if (value !== e.resultText) functions = functions.replace(`${e.formula} → ${e.resultText}`, `${e.formula} → ${value}`);
     }
   }
-  const readme = syncReadme(readFileSync(README_FILE, 'utf8'));
+  const readme = syncReadme(readFileSync(README_FILE, 'utf8'), functions);
   for (const [file, text] of [
     [FUNCTIONS_FILE, functions],
     [README_FILE, readme],

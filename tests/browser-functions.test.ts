@@ -92,13 +92,14 @@ describe.skipIf(!haveBrowser)('worksheet functions in Chromium (shared-runtime p
       async ([h, r]) => {
         const F = (window as unknown as Record<string, Record<string, (...a: unknown[]) => Promise<unknown>>>).__hushFunctions;
         const inv = () => ({});
-        const nulls = (n: number) => Array(n).fill(null);
+        // The invocation is the last parameter: pad the arguments with nulls to the function's own count.
+        const call = (f: (...a: unknown[]) => Promise<unknown>, args: unknown[]) => f(...args, ...Array(f.length - 1 - args.length).fill(null), inv());
         return {
-          layers: await F.LAYERS(1e-4, 15, 30, 45, [[3, 4]], ...nulls(5), inv()),
-          design: await F.DESIGN(1e-3, 20, ...nulls(8), inv()),
-          plan: await F.PLAN([h], [r], inv()),
-          cost: await F.COST([h], [r], inv()),
-          table: await F.REFLECTION_TABLE(10, 3, [[20], [40]], [[0, 45]], ...nulls(7), inv()),
+          layers: await call(F.LAYERS, [1e-4, 15, 30, 45, [[3, 4]]]),
+          design: await call(F.DESIGN, [1e-3, 20]),
+          plan: await call(F.PLAN, [[h], [r]]),
+          cost: await call(F.COST, [[h], [r]]),
+          table: await call(F.REFLECTION_TABLE, [10, 3, [[20], [40]], [[0, 45]]]),
         };
       },
       [H, R] as const,
@@ -123,7 +124,8 @@ describe.skipIf(!haveBrowser)('worksheet functions in Chromium (shared-runtime p
       const settle = (p: Promise<unknown>) => p.then(() => 'resolved', (e: { code: string; message: string }) => `${e.code} ${e.message}`);
       const inv: { onCanceled?: () => void } = {};
       // The largest table allowed (100 × 100 values at 200 layers), cancelled as soon as it was called.
-      const big = F.REFLECTION_TABLE(200, 3, [Array.from({ length: 100 }, (_, i) => 10 + i)], [Array.from({ length: 100 }, (_, j) => j * 0.8)], ...Array(7).fill(null), inv);
+      const T = F.REFLECTION_TABLE;
+      const big = T(200, 3, [Array.from({ length: 100 }, (_, i) => 10 + i)], [Array.from({ length: 100 }, (_, j) => j * 0.8)], ...Array(T.length - 5).fill(null), inv);
       inv.onCanceled!();
       const tooBig = F.REFLECTION_TABLE(200, 3, [Array(500).fill(20)], [Array(500).fill(0)]);
       return { cancelled: await settle(big), tooBig: await settle(tooBig) };

@@ -131,7 +131,7 @@ describe('hush plan', () => {
     source.forEach((row, i) => expect(written[i].slice(0, source[0].length)).toEqual(row));
     const total = written[written.length - 1];
     expect(total[source[0].indexOf('study')]).toBe('total');
-    expect(total[written[0].indexOf('notes')]).toMatch(/^total of 8 planned studies; .*not a study row$/);
+    expect(total[written[0].indexOf('notes')]).toMatch(/^total of 9 planned studies; .*not a study row$/);
     // Planning the written plan again gives the same file (old output columns are replaced).
     const again = join(dir, 'again.csv');
     expect((await run(['plan', out, '--out', again])).code).toBe(0);

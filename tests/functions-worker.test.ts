@@ -60,7 +60,6 @@ type Invocation = { onCanceled?: () => void };
 const invocation = (): Invocation => ({});
 const cancel = (inv: Invocation) => inv.onCanceled!();
 /** The worksheet function's arguments padded with nulls to its own count, then the invocation (it is always the last parameter). */
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 const call = <F extends (...a: any[]) => any>(f: F, args: unknown[], inv: Invocation): ReturnType<F> =>
   f(...[...args, ...Array(f.length - 1 - args.length).fill(null)], inv);
 const CANCELLED = { code: '#VALUE!', message: new JobCancelled().message };

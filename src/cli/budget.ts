@@ -6,7 +6,7 @@ import { Options, type CommandSpec } from './options';
 
 export const budgetSpec: CommandSpec = {
   name: 'budget',
-  summary: 'Tolerated intensity error → the amplitude reflection |r| each absorbing face may have (physics.md §1); with --amplitude, the inverse.',
+  summary: 'Tolerated intensity error → the amplitude reflection |r| each absorbing face may have, for a field-intensity monitor (1+c|r|)²−1 or a flux monitor c²|r|²; with --amplitude, the inverse.',
   fields: ['intensity_error', 'amplitude', 'coupling', 'faces_seen', 'phase', 'monitor', 'share'],
   switches: { json: { help: 'print one line of JSON' } },
   notes: ['Give exactly one of --intensity-error or --amplitude.'],

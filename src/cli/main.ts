@@ -24,6 +24,7 @@ export const commands: Record<string, Entry> = {
   cost: { summary: 'cells, ψ, memory, steps, runtime and cost of a domain (planning estimate)', load: async () => { const m = await import('./cost'); return { run: m.costCommand, spec: m.costSpec }; } },
   dispersion: { summary: 'numerical phase and group velocity of the Yee grid along a direction', load: async () => { const m = await import('./dispersion'); return { run: m.dispersionCommand, spec: m.dispersionSpec }; } },
   sweep: { summary: 'exact |r| (and dB) of one design over cells per wavelength × angle, as CSV', load: async () => { const m = await import('./sweep'); return { run: m.sweepCommand, spec: m.sweepSpec }; } },
+  init: { summary: 'write a starter project table (.xlsx or .csv) with an invented example row', load: async () => { const m = await import('./init'); return { run: m.initCommand, usage: m.initUsage }; } },
   plan: { summary: 'plan every study of a project table (.csv/.xlsx) and write the plan', load: async () => { const m = await import('./plan'); return { run: m.planCommand, usage: m.planUsage }; } },
 };
 

@@ -49,15 +49,32 @@ function checkOut(table: string, out: string, replace: boolean): void {
   if (!replace && identity(out) !== null) throw new UsageError(`--out ${out} already exists; give --replace to overwrite it, or choose another name`);
 }
 
-function progress(io: CommandIO): ((done: number, total: number) => void) | null {
+/** Progress on a terminal: a bar, rows done, rate and time left (from the rows done so far). */
+function progress(io: CommandIO, now: () => number = () => Date.now()): ((done: number, total: number) => void) | null {
   const tty = io === processIO ? Boolean(process.stderr.isTTY) : io.isTTY;
   if (!tty) return null;
   const write = io === processIO ? (t: string) => process.stderr.write(t) : (t: string) => io.err(t);
+  const start = now();
   return (done, total) => {
     const width = 30;
     const filled = Math.round((width * done) / total);
-    write(`\r[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done === total ? '\n' : ''}`);
+    write(`\r[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${rateText(done, total, (now() - start) / 1000)}${done === total ? '\n' : ''}`);
   };
+}
+
+/** " · 12.3 rows/s · 40 s left" once a rate can be measured, else "". */
+export function rateText(done: number, total: number, seconds: number): string {
+  if (done <= 0 || seconds <= 0.05) return '';
+  const rate = done / seconds;
+  const left = (total - done) / rate;
+  const leftText = done >= total ? `${duration(seconds)} in all` : `${duration(left)} left`;
+  return ` · ${fmt(rate, 3)} rows/s · ${leftText}`;
+}
+
+function duration(seconds: number): string {
+  if (seconds < 60) return `${Math.ceil(seconds)} s`;
+  if (seconds < 3600) return `${Math.floor(seconds / 60)} min ${Math.round(seconds % 60)} s`;
+  return `${Math.floor(seconds / 3600)} h ${Math.round((seconds % 3600) / 60)} min`;
 }
 
 function pick(outputs: PlanCell[], name: string): PlanCell {
@@ -66,6 +83,11 @@ function pick(outputs: PlanCell[], name: string): PlanCell {
 
 function num(v: PlanCell, scale = 1): string {
   return typeof v === 'number' ? fmt(v * scale) : '—';
+}
+
+/** An integer output with all its digits (grouped by thousands), or "—". */
+function integer(v: PlanCell): string {
+  return typeof v === 'number' ? whole(v) : '—';
 }
 
 /** A whole number with all its digits, grouped by thousands. */
@@ -174,38 +196,51 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     );
   } else {
     const summary: string[][] = [];
+    const rowNotes: string[] = [];
     const studyColumns = fieldColumns(table).get('study');
+    const head = ['study', 'layers', 'order', 'worst |r|', 'dB', 'grid', 'overhead %', 'error % (absorber+dispersion+run)', 'memory GB', 'steps', 'runtime h', 'cost', 'notes'];
     planned.forEach((r, i) => {
       if (!r.outputs) return;
       const label = rowLabel(studyColumns && studyColumns.length === 1 ? r.row.values[studyColumns[0]] : undefined, r.row.number);
       const plan = plans[i];
       if (!plan) {
-        summary.push([label, 'ERROR', '', '', '', '', '', '', '', '', errors[i] ?? '']);
+        summary.push([label, 'ERROR', ...head.slice(2, -1).map(() => ''), 'see below']);
+        rowNotes.push(`${label} (row ${r.row.number}): error: ${errors[i] ?? ''}`);
         return;
       }
       const o = r.outputs;
+      const db = pick(o, 'worst_reflection_db');
+      const errs = ['error_absorber', 'error_dispersion', 'error_run'].map((n) => pick(o, n));
       summary.push([
         label,
         String(plan.design.layers),
         String(plan.design.order),
         fmt(plan.design.worstAmplitude, 3),
+        typeof db === 'number' ? db.toFixed(1) : '—',
         String(pick(o, 'grid')),
         num(pick(o, 'overhead_percent')),
+        errs.every((e) => typeof e === 'number') ? errs.map((e) => fmt(100 * (e as number), 2)).join('+') : '—',
         num(pick(o, 'memory')),
-        num(pick(o, 'steps')),
+        integer(pick(o, 'steps')),
         num(pick(o, 'runtime')),
         num(pick(o, 'cost')),
-        plan.warnings.length ? `${plan.warnings.length} note${plan.warnings.length > 1 ? 's' : ''}` : '',
+        plan.warnings.length ? `${plan.warnings.length} (below)` : '',
       ]);
+      for (const w of plan.warnings) rowNotes.push(`${label} (row ${r.row.number}): ${w}`);
     });
     const shown = summary.map((r) => r.map(terminalSafe));
-    const head = ['study', 'layers', 'order', 'worst |r|', 'grid', 'overhead %', 'memory GB', 'steps', 'runtime h', 'cost', 'notes'];
-    const widths = head.map((h, c) => Math.min(c === 0 ? 40 : 16, Math.max(h.length, ...shown.map((r) => r[c].length))));
+    const widths = head.map((h, c) => Math.min(c === 0 ? 40 : 16, Math.max(c === 7 ? 14 : h.length, ...shown.map((r) => r[c].length))));
     const line = (cells: string[]) =>
       cells.map((t, c) => (c === cells.length - 1 ? t : c === 0 ? t.slice(0, widths[c]).padEnd(widths[c]) : t.padStart(widths[c]))).join('  ');
     say(read);
-    io.out(line(head));
+    io.out(line(head.map((h, c) => (c === 7 ? 'error %' : h))));
     for (const r of shown) io.out(line(r));
+    if (rowNotes.length) {
+      io.out('');
+      io.out('error % is the error split: absorber + dispersion + run length, in % of intensity. Notes:');
+      for (const n of rowNotes) say(`  ${n}`);
+      io.out('');
+    }
     say(totalsLine(totals));
     io.out(`${totals.studies} planned, ${totals.failed} failed; runtime and cost are planning estimates (check convergence with a thicker absorber)`);
   }

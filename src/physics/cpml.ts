@@ -10,7 +10,7 @@
  * split into incident and reflected waves (which uses E at depths 0 and −1
  * and the lossless H at −½) holds even where the E node at depth 0 is lossy.
  */
-import { profileAt, profileIntegral, resolveDesign, type AbsorberDesign, type ResolvedDesign } from './grading';
+import { geometricSigma0, powWhole, profileIntegral, resolveDesign, sigmaOptNormUnchecked, type AbsorberDesign, type ResolvedDesign } from './grading';
 import { checkCourantMedium } from './courant';
 
 /** Coefficients of one absorber on its E and H nodes. */
@@ -54,7 +54,10 @@ const ab = new Float64Array(2);
 /**
  * Fills `out` (from `allocateCoefficients`) with the coefficients of `design`
  * on a grid of medium Courant number S_m = S/n, following the design's
- * sampling convention. Returns `out`.
+ * sampling convention. Returns `out`. What does not depend on the node is
+ * taken out of the loop (σ_max, geometric σ₀, whether m and m_a are whole);
+ * whole orders take `powWhole` instead of Math.pow, and α's power is skipped
+ * when α_max = 0 (it would be multiplied by 0).
  */
 export function fillCoefficients(design: ResolvedDesign, courantMedium: number, out: CpmlCoefficients): CpmlCoefficients {
   const N = design.layers;
@@ -72,17 +75,47 @@ export function fillCoefficients(design: ResolvedDesign, courantMedium: number, 
     }
     return out;
   }
-  for (let i = 0; i <= N; i++) {
-    // 'offset': the node at depth d sampled at (d + ½)/N, capped at the back.
-    profileAt(design, sampling === 'offset' ? Math.min((i + 0.5) / N, 1) : i / N, prof);
-    setE(out, i, prof[0], prof[1], prof[2], courantMedium);
-  }
-  for (let i = 0; i < N; i++) {
-    // 'lagged': the H node at depth i + ½ takes the E node's value at depth i.
-    profileAt(design, sampling === 'offset' ? (i + 1) / N : sampling === 'lagged' ? i / N : (i + 0.5) / N, prof);
-    setH(out, i, prof[0], prof[1], prof[2], courantMedium);
-  }
+  // 'node': u = d/N; 'offset': the node at depth d sampled at (d + ½)/N, capped at the back;
+  // 'lagged': the H node at depth i + ½ takes the E node's value at depth i.
+  const eShift = sampling === 'offset' ? 0.5 : 0;
+  const hShift = sampling === 'offset' ? 1 : sampling === 'lagged' ? 0 : 0.5;
+  sampleNodes(design, N + 1, eShift, courantMedium, out.eB, out.eA, out.eInvKappa);
+  sampleNodes(design, N, hShift, courantMedium, out.hB, out.hA, out.hInvKappa);
   return out;
+}
+
+/** b, a, 1/κ of `count` nodes sampled at u = min((i + shift)/N, 1), i = 0…count − 1 (profileAt's profiles). */
+function sampleNodes(d: ResolvedDesign, count: number, shift: number, sm: number, bOut: Float64Array, aOut: Float64Array, kOut: Float64Array): void {
+  const N = d.layers;
+  const geometric = d.grading === 'geometric';
+  const m = d.order;
+  const mWhole = Number.isInteger(m);
+  const sigmaMax = d.strength * sigmaOptNormUnchecked(m);
+  const sigma0 = geometric ? geometricSigma0(d) : 0;
+  const g = d.geometricRatio;
+  const km1 = d.kappaMax - 1;
+  const amax = d.alphaMaxNorm;
+  const ma = d.alphaOrder;
+  const maWhole = Number.isInteger(ma);
+  for (let i = 0; i < count; i++) {
+    const u = Math.min((i + shift) / N, 1);
+    let sigma: number;
+    let um: number;
+    if (geometric) {
+      sigma = sigma0 * Math.pow(g, u * N);
+      um = u;
+    } else {
+      um = mWhole ? powWhole(u, m) : Math.pow(u, m);
+      sigma = sigmaMax * um;
+    }
+    const kappa = 1 + km1 * um;
+    const alpha = amax === 0 ? 0 : amax * (maWhole ? powWhole(1 - u, ma) : Math.pow(1 - u, ma));
+    const b = Math.exp(-(sigma / kappa + alpha) * sm);
+    const den = sigma * kappa + kappa * kappa * alpha;
+    bOut[i] = b;
+    aOut[i] = sigma > 0 && den > 0 ? (sigma * (b - 1)) / den : 0;
+    kOut[i] = 1 / kappa;
+  }
 }
 
 function setE(out: CpmlCoefficients, i: number, sigma: number, kappa: number, alpha: number, courantMedium: number): void {

@@ -31,7 +31,7 @@ import { fillCoefficients } from './cpml';
 import { continuousReflectionUnchecked } from './continuous';
 import { HushInputError } from './errors';
 import { checkSampling, profileAt, resolveDesign, type ResolvedDesign, type SamplingConvention } from './grading';
-import { MAX_DECAY_CELLS, checkedEvanescentFactor, createWorkspace, fillFactors, reflectionKernel, type ReflectionWorkspace } from './reflection';
+import { MAX_DECAY_CELLS, SAMPLE_STRIDE, checkedEvanescentFactor, createWorkspace, fillFactors, fillSample, reflectionKernel, sampledKernels, type ReflectionWorkspace } from './reflection';
 import { MAX_LAYERS, MAX_STRENGTH } from './constants';
 import { inRange, wholeInRange } from './validate';
 
@@ -458,6 +458,10 @@ function groupDesign(d: ResolvedDesign, g: CheckGroup, out: ResolvedDesign): Res
 
 const scratchDesign: ResolvedDesign = resolveDesign({ layers: 1, order: 1 });
 
+/** worstReflection's table of one frequency's samples (fillSample) and their [re, im], grown as needed. */
+let searchSamples = new Float64Array(0);
+let searchOut = new Float64Array(0);
+
 /**
  * Worst weighted |r| (|r|, times e^{−2·gap/L} for the near field) of `d` over
  * `checks`, starting from the group and frequency of `start` (the previous
@@ -495,11 +499,28 @@ export function worstReflection(
       const om = g.omegaDt[i];
       const w = g.weight ? g.weight[i] : 1;
       fillFactors(ws.coef, om, ws.factors);
+      // Every direction of this frequency in one pass over the layers (sampledKernels), then
+      // scanned in the order the search has always used, with the same early exit.
+      let count = 0;
+      if (searchSamples.length < na * nz * SAMPLE_STRIDE) {
+        searchSamples = new Float64Array(na * nz * SAMPLE_STRIDE);
+        searchOut = new Float64Array(2 * na * nz);
+      }
       for (let j = na - 1; j >= 0; j--) {
         for (let z = g.angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
-          reflectionKernel(ws.factors, N, sm, om, g.factor[(i * na + j) * nz + z], ws.out);
-          const amp = Math.hypot(ws.out[0], ws.out[1]) * w;
-          evaluated++;
+          fillSample(sm, om, g.factor[(i * na + j) * nz + z], searchSamples, count * SAMPLE_STRIDE);
+          count++;
+        }
+      }
+      sampledKernels(ws.factors, N, searchSamples, 0, count, searchOut);
+      evaluated += count;
+      let at = 0;
+      for (let j = na - 1; j >= 0; j--) {
+        for (let z = g.angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
+          const re = searchOut[2 * at];
+          const im = searchOut[2 * at + 1];
+          at++;
+          const amp = Math.sqrt(re * re + im * im) * w;
           if (amp > worst) {
             worst = amp;
             wg = gi;

@@ -118,24 +118,54 @@ export function checkSampling(sampling: unknown): SamplingConvention {
 }
 
 /**
+ * x^n for a whole n ≥ 0 by repeated squaring (at most 2·log₂n + 1 products;
+ * MAX_ORDER + 1 = 11 needs five): the grading order is usually whole, and
+ * Math.pow costs several times more (issue 13). Agrees with Math.pow to a few
+ * units in the last place; x^0 = 1 for every x, as Math.pow gives.
+ */
+export function powWhole(x: number, n: number): number {
+  let r = 1;
+  let p = x;
+  for (;;) {
+    if (n & 1) r *= p;
+    n >>= 1;
+    if (n === 0) return r;
+    p *= p;
+  }
+}
+
+/** x^m: by `powWhole` when m is a whole number, else Math.pow (a fractional grading order). */
+export function powOrder(x: number, m: number): number {
+  return Number.isInteger(m) ? powWhole(x, m) : Math.pow(x, m);
+}
+
+/**
  * Profiles at a depth u = depth/N ∈ [0, 1]. Writes σ_norm, κ, α_norm into `out`
  * (length 3) to avoid allocation in loops.
  */
 export function profileAt(d: ResolvedDesign, u: number, out: Float64Array): void {
   const N = d.layers;
   let sigma: number;
+  let um: number;
   if (d.grading === 'geometric') {
-    // σ(x) = σ₀ g^{x/Δ}; σ₀ set so the continuous round trip equals e^{−1.6·s·N},
-    // from R = exp(−2nη₀σ₀Δ(g^N − 1)/ln g) (physics.md §2).
-    const g = d.geometricRatio;
-    const sigma0 = (0.8 * d.strength * N * Math.log(g)) / (Math.pow(g, N) - 1);
-    sigma = sigma0 * Math.pow(g, u * N);
+    sigma = geometricSigma0(d) * Math.pow(d.geometricRatio, u * N);
+    um = u;
   } else {
-    sigma = d.strength * sigmaOptNormUnchecked(d.order) * Math.pow(u, d.order);
+    um = powOrder(u, d.order);
+    sigma = d.strength * sigmaOptNormUnchecked(d.order) * um;
   }
   out[0] = sigma;
-  out[1] = 1 + (d.kappaMax - 1) * (d.grading === 'geometric' ? u : Math.pow(u, d.order));
-  out[2] = d.alphaMaxNorm * Math.pow(1 - u, d.alphaOrder);
+  out[1] = 1 + (d.kappaMax - 1) * um;
+  out[2] = d.alphaMaxNorm === 0 ? 0 : d.alphaMaxNorm * powOrder(1 - u, d.alphaOrder);
+}
+
+/**
+ * σ₀ of geometric grading σ(x) = σ₀ g^{x/Δ}, set so the continuous round trip
+ * equals e^{−1.6·s·N}, from R = exp(−2nη₀σ₀Δ(g^N − 1)/ln g) (physics.md §2).
+ */
+export function geometricSigma0(d: ResolvedDesign): number {
+  const g = d.geometricRatio;
+  return (0.8 * d.strength * d.layers * Math.log(g)) / (Math.pow(g, d.layers) - 1);
 }
 
 /**
@@ -160,14 +190,14 @@ export function profileIntegral(d: ResolvedDesign, x0: number, x1: number, out: 
     kappa1 = ((d.kappaMax - 1) * (x1 * x1 - x0 * x0)) / (2 * N);
   } else {
     const m = d.order;
-    const poly = (N * (Math.pow(u1, m + 1) - Math.pow(u0, m + 1))) / (m + 1);
+    const poly = (N * (powOrder(u1, m + 1) - powOrder(u0, m + 1))) / (m + 1);
     sigma = d.strength * sigmaOptNormUnchecked(m) * poly;
     kappa1 = (d.kappaMax - 1) * poly;
   }
   const ma = d.alphaOrder;
   out[0] = sigma;
   out[1] = kappa1;
-  out[2] = (d.alphaMaxNorm * N * (Math.pow(1 - u0, ma + 1) - Math.pow(1 - u1, ma + 1))) / (ma + 1);
+  out[2] = d.alphaMaxNorm === 0 ? 0 : (d.alphaMaxNorm * N * (powOrder(1 - u0, ma + 1) - powOrder(1 - u1, ma + 1))) / (ma + 1);
 }
 
 /** Polynomial σ(u)/σ_max = u^m at depth u = depth/N ∈ [0, 1], order 0 ≤ m ≤ MAX_ORDER; exported for plots and tests. */

@@ -12,7 +12,7 @@
  * Types live in the public barrel.
  */
 export { allocateCoefficients, nodeCoefficients, fillCoefficients } from './cpml';
-export { allocateFactors, fillFactors, reflectionKernel, resolveWave, checkedEvanescentFactor, createWorkspace, reflectionResolved } from './reflection';
+export { allocateFactors, fillFactors, fillSample, sampledKernel, sampledKernels, SAMPLE_STRIDE, reflectionKernel, resolveWave, checkedEvanescentFactor, createWorkspace, reflectionResolved } from './reflection';
 export { worstReflection, sampleGrid, designChecks, bestStrengthFor, resolveSpec, designOptionsResolved } from './design';
 export { profileAt, profileIntegral, sigmaOptNormUnchecked } from './grading';
 export { attenuationIntegral, continuousReflectionUnchecked, continuousEvanescentUnchecked } from './continuous';

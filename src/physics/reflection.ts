@@ -24,51 +24,91 @@ import { inRange, wholeInRange } from './validate';
 const DEG = Math.PI / 180;
 const RESCALE = 1e150;
 
-/** Per-frequency node factors F = Fr + j·Fi for E and H nodes. */
+/**
+ * Per-frequency inverse node factors 1/F = G_r + j·G_i for E and H nodes: the
+ * recurrence divides by F, so it is inverted once per node and frequency here
+ * and the kernel only multiplies.
+ */
 export interface NodeFactors {
-  eRe: Float64Array;
-  eIm: Float64Array;
-  hRe: Float64Array;
-  hIm: Float64Array;
+  eInvRe: Float64Array;
+  eInvIm: Float64Array;
+  hInvRe: Float64Array;
+  hInvIm: Float64Array;
 }
 
 export function allocateFactors(capacity: number): NodeFactors {
   return {
-    eRe: new Float64Array(capacity + 1),
-    eIm: new Float64Array(capacity + 1),
-    hRe: new Float64Array(capacity),
-    hIm: new Float64Array(capacity),
+    eInvRe: new Float64Array(capacity + 1),
+    eInvIm: new Float64Array(capacity + 1),
+    hInvRe: new Float64Array(capacity),
+    hInvIm: new Float64Array(capacity),
   };
 }
 
-/** F = 1/κ + a/(1 − b·e^{−jωΔt}) on every node of `coef` at phase step ωΔt. */
+/**
+ * 1/F on every node of `coef` at phase step ωΔt, F = 1/κ + a/(1 − b·e^{−jωΔt}):
+ * with w = 1 − b·e^{−jωΔt}, 1/F = w/(w/κ + a), one complex division per node
+ * (exactly 1 on a lossless node, a = 0 and κ = 1, as F itself is).
+ */
 export function fillFactors(coef: CpmlCoefficients, omegaDt: number, out: NodeFactors): NodeFactors {
   const c = Math.cos(omegaDt);
   const s = Math.sin(omegaDt);
-  const N = coef.layers;
-  for (let i = 0; i <= N; i++) {
-    const b = coef.eB[i];
-    const a = coef.eA[i];
-    const p = 1 - b * c;
-    const q = b * s;
-    const den = p * p + q * q;
-    out.eRe[i] = coef.eInvKappa[i] + (a * p) / den;
-    out.eIm[i] = (-a * q) / den;
-  }
-  for (let i = 0; i < N; i++) {
-    const b = coef.hB[i];
-    const a = coef.hA[i];
-    const p = 1 - b * c;
-    const q = b * s;
-    const den = p * p + q * q;
-    out.hRe[i] = coef.hInvKappa[i] + (a * p) / den;
-    out.hIm[i] = (-a * q) / den;
-  }
+  invertFactors(coef.layers + 1, c, s, coef.eB, coef.eA, coef.eInvKappa, out.eInvRe, out.eInvIm);
+  invertFactors(coef.layers, c, s, coef.hB, coef.hA, coef.hInvKappa, out.hInvRe, out.hInvIm);
   return out;
+}
+
+function invertFactors(n: number, c: number, s: number, bs: Float64Array, as: Float64Array, ks: Float64Array, re: Float64Array, im: Float64Array): void {
+  for (let i = 0; i < n; i++) {
+    const b = bs[i];
+    const k = ks[i];
+    const p = 1 - b * c;
+    const q = b * s;
+    const dr = k * p + as[i];
+    const di = k * q;
+    const dd = dr * dr + di * di;
+    re[i] = (p * dr + q * di) / dd;
+    im[i] = (q * dr - p * di) / dd;
+  }
 }
 
 /** Result slot for the kernel: [re, im] of r. */
 export type ComplexOut = Float64Array;
+
+/** Numbers per sample in a sample table (`fillSample`): Ω, Ωζ, kind, and the split's two constants. */
+export const SAMPLE_STRIDE = 5;
+
+/**
+ * The kernel's constants of one sample (phase step ωΔt, transverse factor
+ * sin²(k_t/2), medium Courant number S_m), everything of it that does not
+ * depend on the layer, written at samples[at…at + 4]:
+ *   Ω = 2·sin(ωΔt/2)/S_m (Ω·Δ/v), Ωζ with ζ = 1 − K_t²/Ω², K_t² = 4 sin²(k_t/2);
+ *   with x = sin²(ωΔt/2)/S_m² − sin²(k_t/2) = sin²(k̃_x/2) (lossless 1-D dispersion):
+ *   x ≥ 0, a propagating wave: kind 0, cos k̃_x = 1 − 2x, sin k̃_x = 2·√(x(1 − x));
+ *   x < 0, evanescent along x (physics.md §6): k̃_x = −j/L with sinh(1/(2L)) = √−x,
+ *   kind 1, e^{1/L} = (√−x + √(1 − x))² and e^{−1/L}.
+ */
+export function fillSample(courantMedium: number, omegaDt: number, sinHalfKt2: number, samples: Float64Array, at: number): void {
+  const sh = Math.sin(omegaDt / 2);
+  const omega = (2 * sh) / courantMedium;
+  const zeta = 1 - (4 * sinHalfKt2) / (omega * omega);
+  samples[at] = omega;
+  samples[at + 1] = omega * zeta;
+  const x = (sh * sh) / (courantMedium * courantMedium) - sinHalfKt2;
+  if (x < 0) {
+    const t = Math.sqrt(-x) + Math.sqrt(1 - x);
+    const up = t * t;
+    samples[at + 2] = 1;
+    samples[at + 3] = up;
+    samples[at + 4] = 1 / up;
+  } else {
+    samples[at + 2] = 0;
+    samples[at + 3] = 1 - 2 * x;
+    samples[at + 4] = 2 * Math.sqrt(x * (1 - x));
+  }
+}
+
+const oneSample = new Float64Array(SAMPLE_STRIDE);
 
 /**
  * The kernel: reflection r at depth 0 for node factors `f` (from `fillFactors`
@@ -87,33 +127,39 @@ export function reflectionKernel(
   sinHalfKt2: number,
   out: ComplexOut,
 ): ComplexOut {
-  const sh = Math.sin(omegaDt / 2);
-  const omega = (2 * sh) / courantMedium; // Ω·Δ/v
-  // ζ = 1 − K_t²/Ω² with K_t² = 4 sin²(k_t/2).
-  const zeta = 1 - (4 * sinHalfKt2) / (omega * omega);
-  const wz = omega * zeta;
-  // E_N = 0, H_{N−½} = 1.
+  fillSample(courantMedium, omegaDt, sinHalfKt2, oneSample, 0);
+  return sampledKernel(f, layers, oneSample, 0, out, 0);
+}
+
+/**
+ * The kernel at the sample held at samples[at…] (`fillSample`): shoots from
+ * the conductor (E_N = 0, H_{N−½} = 1) to the interface, writes [Re r, Im r]
+ * at out[outAt], out[outAt + 1].
+ */
+export function sampledKernel(f: NodeFactors, layers: number, samples: Float64Array, at: number, out: Float64Array, outAt: number): Float64Array {
+  const omega = samples[at];
+  const wz = samples[at + 1];
+  const eg = f.eInvRe;
+  const egi = f.eInvIm;
+  const hg = f.hInvRe;
+  const hgi = f.hInvIm;
   let eRe = 0;
   let eIm = 0;
   let hRe = 1;
   let hIm = 0;
   for (let i = layers - 1; i >= 0; i--) {
-    // E_i = E_{i+1} − jΩ·H_{i+½}/F_h
-    let fr = f.hRe[i];
-    let fi = f.hIm[i];
-    let den = fr * fr + fi * fi;
-    // H/F = H·conj(F)/|F|²
-    let tr = (hRe * fr + hIm * fi) / den;
-    let ti = (hIm * fr - hRe * fi) / den;
-    // −jΩ·(tr + j ti) = Ω·ti − jΩ·tr
+    // E_i = E_{i+1} − jΩ·H_{i+½}/F_h; −jΩ·(tr + j ti) = Ω·ti − jΩ·tr
+    let gr = hg[i];
+    let gi = hgi[i];
+    let tr = hRe * gr - hIm * gi;
+    let ti = hRe * gi + hIm * gr;
     eRe += omega * ti;
     eIm -= omega * tr;
     // H_{i−½} = H_{i+½} − jΩζ·E_i/F_e
-    fr = f.eRe[i];
-    fi = f.eIm[i];
-    den = fr * fr + fi * fi;
-    tr = (eRe * fr + eIm * fi) / den;
-    ti = (eIm * fr - eRe * fi) / den;
+    gr = eg[i];
+    gi = egi[i];
+    tr = eRe * gr - eIm * gi;
+    ti = eRe * gi + eIm * gr;
     hRe += wz * ti;
     hIm -= wz * tr;
     const mag = Math.abs(eRe) + Math.abs(eIm) + Math.abs(hRe) + Math.abs(hIm);
@@ -125,39 +171,105 @@ export function reflectionKernel(
       hIm *= k;
     }
   }
-  // E_{−1} = E_0 − jΩ·H_{−½} (lossless node).
+  split(eRe, eIm, hRe, hIm, omega, samples[at + 2], samples[at + 3], samples[at + 4], out, outAt);
+  return out;
+}
+
+/** Most samples one pass of `sampledKernels` carries. */
+const PASS = 8;
+const state = new Float64Array(4 * PASS);
+
+/**
+ * The kernel at `count` samples of one frequency (one set of node factors),
+ * samples[(first + k)·SAMPLE_STRIDE…], k = 0…count − 1, in passes of up to 8
+ * samples that walk the layers once, each layer's 1/F read once for all of
+ * them. Writes [Re r, Im r] of sample k at out[2k], out[2k + 1]; the same
+ * arithmetic per sample as `sampledKernel`, so the same values.
+ */
+export function sampledKernels(f: NodeFactors, layers: number, samples: Float64Array, first: number, count: number, out: Float64Array): Float64Array {
+  const eg = f.eInvRe;
+  const egi = f.eInvIm;
+  const hg = f.hInvRe;
+  const hgi = f.hInvIm;
+  for (let k0 = 0; k0 < count; k0 += PASS) {
+    const n = Math.min(PASS, count - k0);
+    for (let k = 0; k < n; k++) {
+      state[4 * k] = 0;
+      state[4 * k + 1] = 0;
+      state[4 * k + 2] = 1;
+      state[4 * k + 3] = 0;
+    }
+    const s0 = (first + k0) * SAMPLE_STRIDE;
+    for (let i = layers - 1; i >= 0; i--) {
+      const hr = hg[i];
+      const hi = hgi[i];
+      const er = eg[i];
+      const ei = egi[i];
+      for (let k = 0; k < n; k++) {
+        const omega = samples[s0 + k * SAMPLE_STRIDE];
+        const wz = samples[s0 + k * SAMPLE_STRIDE + 1];
+        let eRe = state[4 * k];
+        let eIm = state[4 * k + 1];
+        let hRe = state[4 * k + 2];
+        let hIm = state[4 * k + 3];
+        let tr = hRe * hr - hIm * hi;
+        let ti = hRe * hi + hIm * hr;
+        eRe += omega * ti;
+        eIm -= omega * tr;
+        tr = eRe * er - eIm * ei;
+        ti = eRe * ei + eIm * er;
+        hRe += wz * ti;
+        hIm -= wz * tr;
+        const mag = Math.abs(eRe) + Math.abs(eIm) + Math.abs(hRe) + Math.abs(hIm);
+        if (mag > RESCALE) {
+          const r = 1 / RESCALE;
+          eRe *= r;
+          eIm *= r;
+          hRe *= r;
+          hIm *= r;
+        }
+        state[4 * k] = eRe;
+        state[4 * k + 1] = eIm;
+        state[4 * k + 2] = hRe;
+        state[4 * k + 3] = hIm;
+      }
+    }
+    for (let k = 0; k < n; k++) {
+      const at = s0 + k * SAMPLE_STRIDE;
+      split(state[4 * k], state[4 * k + 1], state[4 * k + 2], state[4 * k + 3], samples[at], samples[at + 2], samples[at + 3], samples[at + 4], out, 2 * (k0 + k));
+    }
+  }
+  return out;
+}
+
+/**
+ * Splits the lossless field at the interface into the incident and the
+ * reflected wave: E_{−1} = E_0 − jΩ·H_{−½} (lossless node), then
+ * propagating (kind 0, c1 = cos k̃_x, c2 = sin k̃_x): r = (E_0·e^{jk} − E_{−1}) / (E_{−1} − E_0·e^{−jk});
+ * evanescent (kind 1, c1 = e^{1/L}, c2 = e^{−1/L}; field A·e^{−i/L} + B·e^{+i/L}):
+ * r = B/A = (E_0·e^{1/L} − E_{−1}) / (E_{−1} − E_0·e^{−1/L}).
+ */
+function split(eRe: number, eIm: number, hRe: number, hIm: number, omega: number, kind: number, c1: number, c2: number, out: Float64Array, at: number): void {
   const e1Re = eRe + omega * hIm;
   const e1Im = eIm - omega * hRe;
-  // Lossless 1-D dispersion: sin²(k̃_x/2) = sin²(ωΔt/2)/S_m² − sin²(k_t/2).
-  const x = (sh * sh) / (courantMedium * courantMedium) - sinHalfKt2;
-  if (x < 0) {
-    // Evanescent along x (physics.md §6): k̃_x = −j/L with sinh²(1/(2L)) = −x, so the
-    // lossless field is A·e^{−i/L} + B·e^{+i/L} and e^{±jk̃_x} = e^{±1/L} are real.
-    // r = B/A = (E_0·e^{1/L} − E_{−1}) / (E_{−1} − E_0·e^{−1/L}).
-    const q = 2 * Math.asinh(Math.sqrt(-x));
-    const up = Math.exp(q);
-    const down = 1 / up;
-    const nRe = eRe * up - e1Re;
-    const nIm = eIm * up - e1Im;
-    const dRe = e1Re - eRe * down;
-    const dIm = e1Im - eIm * down;
-    const dd = dRe * dRe + dIm * dIm;
-    out[0] = (nRe * dRe + nIm * dIm) / dd;
-    out[1] = (nIm * dRe - nRe * dIm) / dd;
-    return out;
+  let nRe: number;
+  let nIm: number;
+  let dRe: number;
+  let dIm: number;
+  if (kind !== 0) {
+    nRe = eRe * c1 - e1Re;
+    nIm = eIm * c1 - e1Im;
+    dRe = e1Re - eRe * c2;
+    dIm = e1Im - eIm * c2;
+  } else {
+    nRe = eRe * c1 - eIm * c2 - e1Re;
+    nIm = eRe * c2 + eIm * c1 - e1Im;
+    dRe = e1Re - (eRe * c1 + eIm * c2);
+    dIm = e1Im - (eIm * c1 - eRe * c2);
   }
-  const kx = 2 * Math.asin(Math.sqrt(x));
-  const ck = Math.cos(kx);
-  const sk = Math.sin(kx);
-  // r = (E_0·e^{jk} − E_{−1}) / (E_{−1} − E_0·e^{−jk})
-  const nRe = eRe * ck - eIm * sk - e1Re;
-  const nIm = eRe * sk + eIm * ck - e1Im;
-  const dRe = e1Re - (eRe * ck + eIm * sk);
-  const dIm = e1Im - (eIm * ck - eRe * sk);
   const dd = dRe * dRe + dIm * dIm;
-  out[0] = (nRe * dRe + nIm * dIm) / dd;
-  out[1] = (nIm * dRe - nRe * dIm) / dd;
-  return out;
+  out[at] = (nRe * dRe + nIm * dIm) / dd;
+  out[at + 1] = (nIm * dRe - nRe * dIm) / dd;
 }
 
 /** Where and how a wave meets the absorber. */

@@ -22,6 +22,7 @@ export const STARTER_EXAMPLE: Readonly<Record<string, string | number>> = {
   size_x: '80 mm',
   size_y: '80 mm',
   size_z: '30 mm',
+  gap: '0.5 wavelengths',
   angle_max: 60,
   intensity_error: '1%',
   duration: '60 ns',

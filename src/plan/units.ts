@@ -22,8 +22,6 @@ type Factory = (dependencies: Record<string, unknown>) => unknown;
 /** What the unit engine takes from mathjs (see unitEngine). */
 interface MathjsParts {
   createUnitClass: Factory;
-  createComplexClass: Factory;
-  createFractionClass: Factory;
   format: (value: unknown, options?: object) => string;
 }
 
@@ -39,18 +37,14 @@ interface MathjsParts {
 function mathjsParts(): MathjsParts {
   if (typeof __webpack_require__ === 'function') {
     const { createUnitClass } = require('mathjs/lib/esm/type/unit/Unit.js');
-    const { createComplexClass } = require('mathjs/lib/esm/type/complex/Complex.js');
-    const { createFractionClass } = require('mathjs/lib/esm/type/fraction/Fraction.js');
     const { format } = require('mathjs/lib/esm/utils/string.js');
-    return { createUnitClass, createComplexClass, createFractionClass, format };
+    return { createUnitClass, format };
   }
   const path = require('path') as typeof import('path');
   const lib = path.dirname(require.resolve('mathjs'));
   const from = (file: string) => require(path.join(lib, file));
   return {
     createUnitClass: from('type/unit/Unit.js').createUnitClass,
-    createComplexClass: from('type/complex/Complex.js').createComplexClass,
-    createFractionClass: from('type/fraction/Fraction.js').createFractionClass,
     format: from('utils/string.js').format,
   };
 }
@@ -82,6 +76,82 @@ function notInEngine(what: string): never {
 }
 
 /**
+ * The two value types mathjs's unit table holds besides numbers, reduced to
+ * what the fields here can reach: VAR's value Complex.I (reactive power, a
+ * dimension no field has: any arithmetic on it is refused) and the 5/9 of
+ * degF and degR (temperature, no field has it either: held as a double, so
+ * such a text is parsed and then refused for its dimension like any other
+ * unit of the wrong kind). mathjs's own Complex and Fraction classes (the
+ * complex.js and fraction.js libraries, a third of the unit engine's size in
+ * the add-in bundle) are not loaded. The flags are mathjs's type tests
+ * (src/utils/is.js).
+ */
+class VarComplex implements ComplexNumber {
+  static readonly I = new VarComplex(0, 1);
+  constructor(
+    readonly re: number,
+    readonly im: number,
+  ) {}
+  private refuse(): never {
+    return notInEngine('arithmetic on a complex-valued unit (VAR)');
+  }
+  add(): ComplexNumber {
+    return this.refuse();
+  }
+  sub(): ComplexNumber {
+    return this.refuse();
+  }
+  mul(): ComplexNumber {
+    return this.refuse();
+  }
+  div(): ComplexNumber {
+    return this.refuse();
+  }
+  abs(): number {
+    return this.refuse();
+  }
+  pow(): ComplexNumber {
+    return this.refuse();
+  }
+  valueOf(): number {
+    return this.refuse();
+  }
+}
+Object.defineProperty(VarComplex.prototype, 'isComplex', { value: true });
+
+class RealFraction implements FractionNumber {
+  readonly x: number;
+  constructor(a: number | RealFraction, b = 1) {
+    this.x = a.valueOf() / b;
+  }
+  add(b: RealFraction): RealFraction {
+    return new RealFraction(this.x + b.x);
+  }
+  sub(b: RealFraction): RealFraction {
+    return new RealFraction(this.x - b.x);
+  }
+  mul(b: RealFraction): RealFraction {
+    return new RealFraction(this.x * b.x);
+  }
+  div(b: RealFraction): RealFraction {
+    return new RealFraction(this.x / b.x);
+  }
+  abs(): RealFraction {
+    return new RealFraction(Math.abs(this.x));
+  }
+  pow(b: RealFraction): RealFraction {
+    return new RealFraction(Math.pow(this.x, b.x));
+  }
+  valueOf(): number {
+    return this.x;
+  }
+  toString(): string {
+    return String(this.x);
+  }
+}
+Object.defineProperty(RealFraction.prototype, 'isFraction', { value: true });
+
+/**
  * The unit engine: mathjs's Unit class (its parser, its unit and prefix
  * tables, its conversions and formatting), made on the first quantity parsed
  * by mathjs's own factory functions (createUnitClass, createComplexClass,
@@ -105,23 +175,16 @@ function notInEngine(what: string): never {
  * throws if reached: none of the parsers here reaches it.
  */
 function unitEngine(): { unit(...args: [string] | [number, string]): MathUnit } {
-  const { createUnitClass, createComplexClass, createFractionClass, format } = mathjsParts();
-  const Complex = createComplexClass({}) as new (re: number, im: number) => ComplexNumber;
-  const Fraction = createFractionClass({}) as new (x: number) => FractionNumber;
+  const { createUnitClass, format } = mathjsParts();
+  const Complex = VarComplex;
+  const Fraction = RealFraction;
   const complex = (x: unknown): ComplexNumber =>
     hasFlag(x, 'isComplex')
       ? (x as ComplexNumber)
       : typeof x === 'number' || hasFlag(x, 'isFraction')
         ? new Complex((x as number | FractionNumber).valueOf(), 0)
         : notInEngine(`arithmetic on ${typeof x}`);
-  const fraction = (x: number | FractionNumber): FractionNumber => {
-    if (typeof x !== 'number') return x;
-    const f = new Fraction(x);
-    if (f.valueOf() !== x) {
-      throw new TypeError(`Cannot implicitly convert a number to a Fraction when there will be a loss of precision (value: ${x}). Use function fraction(x) to convert to Fraction.`);
-    }
-    return f;
-  };
+  const fraction = (x: number | FractionNumber): RealFraction => (typeof x === 'number' ? new Fraction(x) : (x as RealFraction));
   const real = (x: unknown): x is number | FractionNumber => typeof x === 'number' || hasFlag(x, 'isFraction');
   const scalar =
     (
@@ -141,7 +204,7 @@ function unitEngine(): { unit(...args: [string] | [number, string]): MathUnit } 
   const powNumbers = (x: number, y: number): Scalar => {
     if (Number.isInteger(y) || x >= 0) return powNumber(x, y);
     if ((x * x < 1 && y === Infinity) || (x * x > 1 && y === -Infinity)) return 0;
-    return new Complex(x, 0).pow(y, 0);
+    return notInEngine('a negative value to a fractional power (a complex result)');
   };
   const absent = (name: string) => () => notInEngine(`mathjs ${name}`);
   const Unit = createUnitClass({

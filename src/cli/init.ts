@@ -1,0 +1,33 @@
+/**
+ * `hush init [FILE.xlsx|FILE.csv]`: writes a starter project table (every
+ * input field as a column, notes, validation, an invented example row and,
+ * in the .xlsx, HUSH.PLAN formulas). Never replaces an existing file.
+ */
+import { existsSync } from 'fs';
+import { tableFormat } from '../plan/table-file';
+import { parseArgs, UsageError } from './args';
+import type { CommandIO } from './io';
+
+export const initUsage =
+  'hush init [FILE.xlsx|FILE.csv]  (writes a starter project table, default hush-project.xlsx: one column per input field with its meaning, unit and default in the header note, ' +
+  'choice lists on the fixed-choice columns, one invented example row and, in an .xlsx, a HUSH.PLAN formula in its output columns; an existing file is never replaced)';
+
+export async function initCommand(argv: string[], io: CommandIO): Promise<number> {
+  const args = parseArgs(argv, {});
+  if (args.positional.length > 1) throw new UsageError(`give at most one file name, got ${args.positional.length}`);
+  const file = args.positional[0] ?? 'hush-project.xlsx';
+  const format = tableFormat(file);
+  if (format !== 'xlsx' && format !== 'csv') throw new UsageError(`${file}: the starter table is written as .xlsx or .csv`);
+  if (existsSync(file)) throw new UsageError(`${file} already exists; Hush does not replace it: choose another name`);
+  const { prepareOutput } = await import('../plan/table-file');
+  await prepareOutput(file);
+  const { writeStarter } = await import('../plan/table/write-starter');
+  try {
+    await writeStarter(file, format);
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === 'EEXIST') throw new UsageError(`${file} already exists; Hush does not replace it: choose another name`);
+    throw e;
+  }
+  io.out(`wrote ${file}: a starter project table with one invented example row; replace it with your studies, then run: hush plan ${file} --out plan.${format === 'xlsx' ? 'xlsx' : 'csv'}`);
+  return 0;
+}
