@@ -113,6 +113,11 @@ module.exports = async (env = {}, argv = {}) => {
     module: {
       rules: [
         {
+          // Listed before ts-loader, so it runs after it, on the plugin's appended associate calls (see the loader).
+          test: FUNCTIONS,
+          use: path.resolve(__dirname, 'scripts/guard-associate-loader.js'),
+        },
+        {
           test: /\.ts$/,
           exclude: /node_modules/,
           use: {

@@ -1,10 +1,12 @@
 /**
- * Charts with uPlot: each series brings its own x values; they are merged onto
- * one ascending x axis (uPlot's aligned data) with gaps where a series has no
- * point. Reference lines (the target) are drawn in a hook so they span the plot.
- * The legend is our own HTML below the canvas: it wraps on a narrow pane.
+ * Small hand-written SVG charts for the pane: lines and markers on linear or
+ * log-10 axes, reference lines (the target, the band's edges, the study's
+ * largest angle) each in its own style, an optional secondary axis in decibels
+ * beside a log |r| axis, and an HTML legend below that wraps on a narrow pane.
+ * Axis titles sit above the plot, horizontally, so a long one is never cut.
+ * The drawing is pure geometry (`layoutChart`, tested in Node); `renderChart`
+ * only turns it into SVG elements.
  */
-import uPlot from 'uplot';
 import type { ChartColours } from './theme';
 
 export interface ChartSeries {
@@ -20,10 +22,15 @@ export interface ChartSeries {
   ring?: boolean;
 }
 
+/** Kinds of reference line, each drawn and listed in its own style. */
+export type ReferenceKind = 'target' | 'band' | 'angle';
+
 export interface ReferenceLine {
   axis: 'x' | 'y';
   value: number;
+  kind: ReferenceKind;
   colour: string;
+  /** Legend text; lines of one kind with the same label are listed once. */
   label: string;
 }
 
@@ -40,28 +47,16 @@ export interface ChartSpec {
   yInclude?: number[];
   /** Log x axis over the data's own span instead of whole decades. */
   xTight?: boolean;
+  /** A secondary y axis on the right in decibels (20·log10 of the log y axis's amplitude). */
+  yDb?: boolean;
 }
 
-export interface AlignedData {
-  x: number[];
-  ys: Array<Array<number | null>>;
-}
-
-/** Merges series onto the sorted union of their x values (exactly equal x values share a slot). */
-export function alignSeries(series: Array<Pick<ChartSeries, 'x' | 'y'>>): AlignedData {
-  const xs = [...new Set(series.flatMap((s) => s.x.filter((v) => Number.isFinite(v))))].sort((a, b) => a - b);
-  const slot = new Map(xs.map((v, i) => [v, i]));
-  const ys = series.map((s) => {
-    const col: Array<number | null> = new Array(xs.length).fill(null);
-    s.x.forEach((v, i) => {
-      const k = slot.get(v);
-      const y = s.y[i];
-      if (k !== undefined && y !== null && Number.isFinite(y)) col[k] = y;
-    });
-    return col;
-  });
-  return { x: xs, ys };
-}
+/** Dash patterns of the reference lines (SVG stroke-dasharray, px). */
+export const REFERENCE_DASH: Readonly<Record<ReferenceKind, string>> = {
+  target: '6 4',
+  band: '2 3',
+  angle: '8 3 2 3',
+};
 
 /**
  * A range on a log axis covering `values`: whole decades around at least one
@@ -98,124 +93,253 @@ export function linearTicks(ticks: number[]): string[] {
   return ticks.map((t) => (Math.abs(t) >= 1e5 ? t.toExponential(2) : t.toFixed(decimals)));
 }
 
-function logTick(v: number): string {
-  if (v === 0) return '0';
-  const e = Math.log10(v);
-  if (Math.abs(e - Math.round(e)) < 1e-9) {
-    const k = Math.round(e);
-    return k >= -2 && k <= 3 ? String(Number(v.toPrecision(1))) : `1e${k}`;
-  }
-  return '';
+/** Ticks at 1, 2 or 5 × 10^k inside [lo, hi], at most about `count` of them. */
+export function niceTicks(lo: number, hi: number, count: number): number[] {
+  if (!(hi > lo)) return [lo];
+  const raw = (hi - lo) / Math.max(1, count);
+  const mag = Number(`1e${Math.floor(Math.log10(raw))}`);
+  const f = raw / mag;
+  const step = (f <= 1 ? 1 : f <= 2 ? 2 : f <= 5 ? 5 : 10) * mag;
+  const out: number[] = [];
+  for (let k = Math.ceil(lo / step - 1e-9); k * step <= hi + step * 1e-9; k++) out.push(Number((k * step).toPrecision(12)));
+  return out;
 }
 
-/** A rendered chart: redraw with new colours or width without rebuilding the DOM around it. */
+/** Decade label: 0.01 … 1000 written out, 1e-5 beyond. */
+export function decadeLabel(k: number): string {
+  return k >= -2 && k <= 3 ? String(Number(`1e${k}`)) : `1e${k}`;
+}
+
+/** Decibels as an axis label, with a true minus sign. */
+function dbLabel(v: number): string {
+  return v < 0 ? `\u2212${Math.abs(v)}` : String(v);
+}
+
+interface Axis {
+  lo: number;
+  hi: number;
+  log: boolean;
+  ticks: Array<{ value: number; label: string }>;
+}
+
+/** Ticks of an axis spanning `length` px; `gap` px is the least room one label needs. */
+function makeAxis(range: [number, number], log: boolean, length: number, gap: number): Axis {
+  const [lo, hi] = range;
+  if (log) {
+    const k0 = Math.ceil(Math.log10(lo) - 1e-9);
+    const k1 = Math.floor(Math.log10(hi) + 1e-9);
+    const decades = Math.log10(hi / lo);
+    const every = Math.max(1, Math.ceil((gap * decades) / length));
+    const ticks: Axis['ticks'] = [];
+    for (let k = k0; k <= k1; k++) if ((k - k0) % every === 0) ticks.push({ value: Number(`1e${k}`), label: decadeLabel(k) });
+    return { lo, hi, log, ticks };
+  }
+  const values = niceTicks(lo, hi, Math.max(2, Math.floor(length / gap)));
+  const labels = linearTicks(values);
+  return { lo, hi, log, ticks: values.map((value, i) => ({ value, label: labels[i] })) };
+}
+
+function position(a: Axis, v: number, from: number, to: number): number {
+  const t = a.log ? Math.log10(v / a.lo) / Math.log10(a.hi / a.lo) : (v - a.lo) / (a.hi - a.lo);
+  return from + t * (to - from);
+}
+
+/** Rough width of a label in px at the pane's 11 px font (0.6 em a character: wide enough for digits). */
+function textWidth(s: string, px = 11): number {
+  return s.length * px * 0.6;
+}
+
+export interface ChartLayout {
+  width: number;
+  height: number;
+  plot: { left: number; top: number; right: number; bottom: number };
+  xTicks: Array<{ x: number; labelX: number; label: string }>;
+  yTicks: Array<{ y: number; label: string }>;
+  dbTicks: Array<{ y: number; label: string }>;
+  xLabel: { x: number; y: number; text: string };
+  yLabel: { x: number; y: number; text: string };
+  dbLabel: { x: number; y: number; text: string } | null;
+  /** Polylines (each a list of points, split at gaps) and markers, per series. */
+  series: Array<{ spec: ChartSeries; paths: Array<Array<[number, number]>>; points: Array<[number, number]> }>;
+  lines: Array<{ spec: ReferenceLine; x1: number; y1: number; x2: number; y2: number }>;
+}
+
+const FONT = 11;
+
+/** Where everything of a chart goes, in px of a `width` × `height` SVG. */
+export function layoutChart(spec: ChartSpec, width: number, height: number): ChartLayout {
+  const xs = spec.series.flatMap((s) => s.x).filter((v) => Number.isFinite(v) && (!spec.xLog || v > 0));
+  const xLines = (spec.lines ?? []).filter((l) => l.axis === 'x').map((l) => l.value);
+  const yLines = (spec.lines ?? []).filter((l) => l.axis === 'y').map((l) => l.value);
+  const ys = spec.series
+    .flatMap((s) => s.y)
+    .filter((v): v is number => v !== null && Number.isFinite(v) && (!spec.yLog || v > 0))
+    .concat(spec.yInclude ?? [], yLines);
+  const xMin = Math.min(...xs);
+  const xMax = Math.max(...xs);
+  // A log axis over less than a factor 3 has no decade ticks to label: drawn linear.
+  const xLog = Boolean(spec.xLog) && !(spec.xTight && xs.length > 1 && xMax / xMin < 3);
+  const xRange: [number, number] = xLog
+    ? logRange(xs.concat(xLines), spec.xTight)
+    : spec.xTight && xs.length > 1
+      ? [xMin, xMax]
+      : linRange(xs);
+  const yRange = spec.yLog ? logRange(ys) : linRange(ys);
+  const dbOn = Boolean(spec.yDb && spec.yLog);
+
+  // Vertical room: the axis titles above the plot, the tick labels and the x title below.
+  const top = FONT + 10;
+  const bottom = height - (FONT + 6 + FONT + 8);
+  const yAxis = makeAxis(yRange, Boolean(spec.yLog), bottom - top, FONT + 4);
+  const dbRange: [number, number] = [20 * Math.log10(yRange[0]), 20 * Math.log10(yRange[1])];
+  const dbValues = dbOn ? niceTicks(dbRange[0], dbRange[1], Math.max(2, Math.floor((bottom - top) / (FONT + 10)))) : [];
+  const left = 6 + Math.max(...yAxis.ticks.map((t) => textWidth(t.label)), 10);
+  const right = width - (dbOn ? 8 + Math.max(...dbValues.map((v) => textWidth(dbLabel(v))), 10) : 10);
+  const xAxis = makeAxis(xRange, xLog, right - left, 46);
+  const X = (v: number) => position(xAxis, v, left, right);
+  const Y = (v: number) => position(yAxis, v, bottom, top);
+  const ok = (x: number, y: number | null): y is number =>
+    y !== null && Number.isFinite(x) && Number.isFinite(y) && (!xLog || x > 0) && (!spec.yLog || y > 0);
+
+  const series = spec.series.map((s) => {
+    const paths: Array<Array<[number, number]>> = [];
+    const points: Array<[number, number]> = [];
+    let run: Array<[number, number]> = [];
+    s.x.forEach((x, i) => {
+      const y = s.y[i];
+      if (ok(x, y)) {
+        const p: [number, number] = [X(x), Y(y)];
+        run.push(p);
+        points.push(p);
+      } else if (run.length) {
+        paths.push(run);
+        run = [];
+      }
+    });
+    if (run.length) paths.push(run);
+    return { spec: s, paths: s.points ? [] : paths, points: s.points ? points : [] };
+  });
+  const lines = (spec.lines ?? [])
+    .filter((l) => (l.axis === 'x' ? l.value >= xAxis.lo && l.value <= xAxis.hi : l.value >= yAxis.lo && l.value <= yAxis.hi))
+    .map((l) => (l.axis === 'x' ? { spec: l, x1: X(l.value), y1: top, x2: X(l.value), y2: bottom } : { spec: l, x1: left, y1: Y(l.value), x2: right, y2: Y(l.value) }));
+  return {
+    width,
+    height,
+    plot: { left, top, right, bottom },
+    // A label at the plot's edge is moved inward just enough to stay inside the chart.
+    xTicks: xAxis.ticks.map((t) => {
+      const half = textWidth(t.label) / 2 + 1;
+      const x = X(t.value);
+      return { x, labelX: Math.min(Math.max(x, half), width - half), label: t.label };
+    }),
+    yTicks: yAxis.ticks.map((t) => ({ y: Y(t.value), label: t.label })),
+    dbTicks: dbValues.map((v) => ({ y: bottom + ((v - dbRange[0]) / (dbRange[1] - dbRange[0])) * (top - bottom), label: dbLabel(v) })),
+    xLabel: { x: (left + right) / 2, y: height - 4, text: spec.xLabel },
+    yLabel: { x: 2, y: FONT + 1, text: spec.yLabel },
+    dbLabel: dbOn ? { x: width - 2, y: FONT + 1, text: 'dB' } : null,
+    series,
+    lines,
+  };
+}
+
+/** A rendered chart. */
 export interface Chart {
-  plot: uPlot;
   destroy(): void;
 }
+
+const SVG = 'http://www.w3.org/2000/svg';
+
+function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number>, text?: string): SVGElementTagNameMap[K] {
+  const e = document.createElementNS(SVG, tag);
+  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
+  if (text !== undefined) e.textContent = text;
+  return e;
+}
+
+let clipIds = 0;
 
 export function renderChart(host: HTMLElement, spec: ChartSpec, colours: ChartColours, width: number, height = 220): Chart {
   host.textContent = '';
   host.setAttribute('role', 'img');
   host.setAttribute('aria-label', spec.title);
   host.tabIndex = 0;
-  const data = alignSeries(spec.series);
-  // A log axis over less than a factor 3 has no decade ticks to label: draw it linear.
-  const xLog = spec.xLog && !(spec.xTight && data.x.length > 1 && data.x[data.x.length - 1] / data.x[0] < 3);
-  const allY = data.ys.flat().filter((y): y is number => y !== null).concat(spec.yInclude ?? []);
-  const yRange = spec.yLog ? logRange(allY) : linRange(allY);
-  const xRange = xLog
-    ? logRange(data.x.concat((spec.lines ?? []).filter((l) => l.axis === 'x').map((l) => l.value)), spec.xTight)
-    : spec.xTight
-      ? ([data.x[0], data.x[data.x.length - 1]] as [number, number])
-      : linRange(data.x);
-  const axis = (label: string, log: boolean | undefined): uPlot.Axis => ({
-    label,
-    stroke: colours.text,
-    labelSize: 18,
-    labelFont: '12px system-ui, "Segoe UI", sans-serif',
-    font: '11px system-ui, "Segoe UI", sans-serif',
-    grid: { stroke: colours.grid, width: 1 },
-    ticks: { stroke: colours.axis, width: 1, size: 4 },
-    values: log
-      ? (_u, ticks) => (ticks.length > 1 && ticks[ticks.length - 1] / ticks[0] < 10 ? linearTicks(ticks) : ticks.map(logTick))
-      : (_u, ticks) => linearTicks(ticks),
-  });
-  const opts: uPlot.Options = {
-    width,
-    height,
-    pxAlign: 0,
-    legend: { show: false },
-    cursor: { show: false },
-    scales: {
-      x: { time: false, distr: xLog ? 3 : 1, log: 10, range: () => xRange },
-      y: { distr: spec.yLog ? 3 : 1, log: 10, range: () => yRange },
-    },
-    axes: [
-      { ...axis(spec.xLabel, xLog), space: 40 },
-      { ...axis(spec.yLabel, spec.yLog), size: spec.yLog ? 52 : 64, space: 24 },
-    ],
-    series: [
-      {},
-      ...spec.series.map(
-        (s): uPlot.Series => ({
-          label: s.label,
-          stroke: s.colour,
-          width: s.points ? 0 : 2,
-          dash: s.dash,
-          spanGaps: !s.points,
-          paths: s.points ? () => null : undefined,
-          points: s.points
-            ? { show: true, size: s.pointSize ?? 7, stroke: s.colour, fill: s.ring ? 'transparent' : s.colour, width: s.ring ? 2 : 1 }
-            : { show: false },
+  const L = layoutChart(spec, width, height);
+  const { left, top, right, bottom } = L.plot;
+  const root = svg('svg', { width, height, viewBox: `0 0 ${width} ${height}`, class: 'chart-svg', 'font-size': FONT, fill: colours.text, 'aria-hidden': 'true' });
+  const clip = `chart-clip-${++clipIds}`;
+  const defs = svg('defs', {});
+  const clipPath = svg('clipPath', { id: clip });
+  // Markers may sit on the plot's edge: the clip leaves them room.
+  clipPath.appendChild(svg('rect', { x: left - 8, y: top - 8, width: right - left + 16, height: bottom - top + 16 }));
+  defs.appendChild(clipPath);
+  root.appendChild(defs);
+  const grid = svg('g', { stroke: colours.grid, 'stroke-width': 1 });
+  for (const t of L.xTicks) grid.appendChild(svg('line', { x1: t.x, x2: t.x, y1: top, y2: bottom }));
+  for (const t of L.yTicks) grid.appendChild(svg('line', { x1: left, x2: right, y1: t.y, y2: t.y }));
+  root.appendChild(grid);
+  root.appendChild(svg('rect', { x: left, y: top, width: right - left, height: bottom - top, fill: 'none', stroke: colours.axis, 'stroke-width': 1 }));
+  const labels = svg('g', {});
+  for (const t of L.xTicks) labels.appendChild(svg('text', { x: t.labelX, y: bottom + FONT + 3, 'text-anchor': 'middle' }, t.label));
+  for (const t of L.yTicks) labels.appendChild(svg('text', { x: left - 4, y: t.y + 4, 'text-anchor': 'end' }, t.label));
+  for (const t of L.dbTicks) labels.appendChild(svg('text', { x: right + 4, y: t.y + 4, 'text-anchor': 'start' }, t.label));
+  labels.appendChild(svg('text', { x: L.xLabel.x, y: L.xLabel.y, 'text-anchor': 'middle', class: 'axis-title' }, L.xLabel.text));
+  labels.appendChild(svg('text', { x: L.yLabel.x, y: L.yLabel.y, 'text-anchor': 'start', class: 'axis-title' }, L.yLabel.text));
+  if (L.dbLabel) labels.appendChild(svg('text', { x: L.dbLabel.x, y: L.dbLabel.y, 'text-anchor': 'end', class: 'axis-title' }, L.dbLabel.text));
+  root.appendChild(labels);
+  const plot = svg('g', { 'clip-path': `url(#${clip})`, fill: 'none' });
+  for (const l of L.lines) {
+    plot.appendChild(svg('line', { x1: l.x1, y1: l.y1, x2: l.x2, y2: l.y2, stroke: l.spec.colour, 'stroke-width': 1.5, 'stroke-dasharray': REFERENCE_DASH[l.spec.kind], class: `ref ref-${l.spec.kind}` }));
+  }
+  for (const s of L.series) {
+    for (const p of s.paths) {
+      plot.appendChild(
+        svg('polyline', {
+          points: p.map(([x, y]) => `${x.toFixed(1)},${y.toFixed(1)}`).join(' '),
+          stroke: s.spec.colour,
+          'stroke-width': 2,
+          'stroke-linejoin': 'round',
+          ...(s.spec.dash ? { 'stroke-dasharray': s.spec.dash.join(' ') } : {}),
         }),
-      ),
-    ],
-    hooks: {
-      draw: [
-        (u: uPlot) => {
-          const ctx = u.ctx;
-          for (const l of spec.lines ?? []) {
-            ctx.save();
-            ctx.strokeStyle = l.colour;
-            ctx.lineWidth = 1.5 * devicePixelRatio;
-            ctx.setLineDash([6 * devicePixelRatio, 4 * devicePixelRatio]);
-            ctx.beginPath();
-            const { left, top, width: w, height: h } = u.bbox;
-            if (l.axis === 'y') {
-              const y = u.valToPos(l.value, 'y', true);
-              ctx.moveTo(left, y);
-              ctx.lineTo(left + w, y);
-            } else {
-              const x = u.valToPos(l.value, 'x', true);
-              ctx.moveTo(x, top);
-              ctx.lineTo(x, top + h);
-            }
-            ctx.stroke();
-            ctx.restore();
-          }
-        },
-      ],
-    },
-  };
-  const plot = new uPlot(opts, [data.x, ...data.ys] as uPlot.AlignedData, host);
+      );
+    }
+    const r = (s.spec.pointSize ?? 7) / 2;
+    for (const [x, y] of s.points) {
+      plot.appendChild(
+        svg('circle', { cx: x.toFixed(1), cy: y.toFixed(1), r, stroke: s.spec.colour, 'stroke-width': s.spec.ring ? 2 : 1, fill: s.spec.ring ? 'none' : s.spec.colour }),
+      );
+    }
+  }
+  root.appendChild(plot);
+  host.appendChild(root);
   host.appendChild(legend(spec, colours));
-  return { plot, destroy: () => plot.destroy() };
+  return { destroy: () => (host.textContent = '') };
+}
+
+/** A legend key: a short sample of the line or marker, drawn as the chart draws it. */
+function key(colour: string, dash: string | null, marker: 'none' | 'dot' | 'ring'): SVGSVGElement {
+  const k = svg('svg', { width: 20, height: 10, viewBox: '0 0 20 10', class: 'key', 'aria-hidden': 'true' });
+  if (marker === 'none') k.appendChild(svg('line', { x1: 1, y1: 5, x2: 19, y2: 5, stroke: colour, 'stroke-width': 2, ...(dash ? { 'stroke-dasharray': dash } : {}) }));
+  else k.appendChild(svg('circle', { cx: 10, cy: 5, r: 3.5, stroke: colour, 'stroke-width': marker === 'ring' ? 2 : 1, fill: marker === 'ring' ? 'none' : colour }));
+  return k;
 }
 
 function legend(spec: ChartSpec, colours: ChartColours): HTMLElement {
   const ul = document.createElement('ul');
   ul.className = 'legend';
-  const item = (label: string, colour: string, kind: 'line' | 'dash' | 'point' | 'ring') => {
+  const item = (label: string, k: SVGSVGElement, kind: string) => {
     const li = document.createElement('li');
-    const key = document.createElement('span');
-    key.className = `key key-${kind}`;
-    key.style.setProperty('--key', colour);
-    li.append(key, document.createTextNode(label));
+    li.dataset.kind = kind;
+    li.append(k, document.createTextNode(label));
     ul.appendChild(li);
   };
-  for (const s of spec.series) item(s.label, s.colour, s.points ? (s.ring ? 'ring' : 'point') : s.dash ? 'dash' : 'line');
-  for (const l of spec.lines ?? []) item(l.label, l.colour, 'dash');
+  for (const s of spec.series) item(s.label, key(s.colour, s.dash ? s.dash.join(' ') : null, s.points ? (s.ring ? 'ring' : 'dot') : 'none'), 'series');
+  const seen = new Set<string>();
+  for (const l of spec.lines ?? []) {
+    const id = `${l.kind}\u0000${l.label}`;
+    if (seen.has(id)) continue;
+    seen.add(id);
+    item(l.label, key(l.colour, REFERENCE_DASH[l.kind], 'none'), l.kind);
+  }
   ul.style.color = colours.text;
   return ul;
 }

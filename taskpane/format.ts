@@ -39,3 +39,27 @@ export function cellText(v: unknown): string {
   if (typeof v === 'number') return Number.isInteger(v) ? String(v) : sig(v, 4);
   return String(v);
 }
+
+/** Amplitude ratio in decibels, 20·log10|r|, one decimal: 1e-3 → "−60.0 dB" (U+2212 minus). */
+export function decibels(amplitude: number): string {
+  if (!Number.isFinite(amplitude) || amplitude <= 0) return '—';
+  const db = 20 * Math.log10(amplitude);
+  return `${db < 0 ? '\u2212' : ''}${Math.abs(db).toFixed(1)} dB`;
+}
+
+/** Apply's one-line confirmation: "Wrote 35 cells of row 5". */
+export function applyHeadline(count: number, row: number): string {
+  if (count === 0) return `Wrote nothing in row ${row}: the table has no output column`;
+  return `Wrote ${count} ${count === 1 ? 'cell' : 'cells'} of row ${row}`;
+}
+
+/**
+ * The theme button's text and accessible name: the current setting and what a
+ * press does (auto → light → dark → auto), e.g. "Theme: auto (dark)".
+ */
+export function themeLabel(setting: 'auto' | 'light' | 'dark', shown: 'light' | 'dark'): { text: string; aria: string } {
+  const next = setting === 'auto' ? 'light' : setting === 'light' ? 'dark' : 'auto';
+  const text = `Theme: ${setting}`;
+  const now = setting === 'auto' ? `Theme: auto (following Office or the system: ${shown} now)` : text;
+  return { text, aria: `${now}. Press to switch to ${next} (order: auto, light, dark).` };
+}

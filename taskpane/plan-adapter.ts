@@ -128,3 +128,5 @@ export function inputUnit(name: string): string {
 export function isInputField(name: string): boolean {
   return INPUT_NAMES.includes(headerName(name));
 }
+
+export { starterTable, type StarterTable } from '../src/plan/starter';

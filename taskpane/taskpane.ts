@@ -15,8 +15,9 @@ import { renderChart, type Chart, type ChartSpec } from './charts';
 import { angleAxisEnd, ppwAxis, reflectionVsAngle, reflectionVsPpw, type GridOfStudy } from './curves';
 import { DEMO_PROJECT_CSV } from './demo-table';
 import { byId, el, show } from './dom';
-import { hours, money, percent, sig } from './format';
+import { applyHeadline, decibels, hours, money, percent, sig, themeLabel } from './format';
 import { OUTPUT_COLUMNS, TABLE_SCHEMA, optionPlans, outputValues, studyPlan, type OptionPlan, type Plan } from './plan-adapter';
+import { checkExcelApi } from './requirements';
 import { renderStudy } from './study-view';
 import { chartColours, officeTheme, systemTheme, type Theme } from './theme';
 import { CancelledError, Verifier } from './verify';
@@ -75,7 +76,10 @@ function effectiveTheme(): Theme {
 function applyTheme(): void {
   document.documentElement.dataset.theme = effectiveTheme();
   const t = byId('theme-toggle');
-  t.textContent = `Theme: ${state.theme}`;
+  const label = themeLabel(state.theme, effectiveTheme());
+  t.textContent = label.text;
+  t.setAttribute('aria-label', label.aria);
+  t.title = label.aria;
   renderCharts();
 }
 
@@ -135,9 +139,61 @@ function setUpDemo(): void {
 
 function setUpExcel(): void {
   state.workbook = new OfficeWorkbook(TABLE_SCHEMA);
-  show('excel-read', true);
-  byId('read-selection').addEventListener('click', () => void loadRow());
   byId('where').textContent = 'In Excel: select a cell in a study row of your project table, then read it.';
+  const api = checkExcelApi((name, version) => Office.context.requirements.isSetSupported(name, version));
+  byId('api-message').textContent = api.message;
+  // Without the required sets the pane's Excel buttons would fail at their first call: they stay hidden.
+  if (api.missing.length) return;
+  show('excel-read', true);
+  show('insert-box', true);
+  byId('read-selection').addEventListener('click', () => void loadRow());
+  const notes = api.skipped.every((n) => n.version !== '1.18');
+  byId('insert-table').addEventListener('click', () => void insertTable(notes));
+}
+
+/** Asks a yes/no question inside the pane (Office add-ins have no window.confirm). */
+function askInPane(question: string): Promise<boolean> {
+  const box = byId('insert-confirm');
+  byId('insert-question').textContent = question;
+  box.hidden = false;
+  const yes = byId<HTMLButtonElement>('insert-yes');
+  const no = byId<HTMLButtonElement>('insert-no');
+  no.focus();
+  return new Promise((resolve) => {
+    const done = (answer: boolean) => {
+      box.hidden = true;
+      yes.removeEventListener('click', onYes);
+      no.removeEventListener('click', onNo);
+      resolve(answer);
+    };
+    const onYes = () => done(true);
+    const onNo = () => done(false);
+    yes.addEventListener('click', onYes);
+    no.addEventListener('click', onNo);
+  });
+}
+
+async function insertTable(notes: boolean): Promise<void> {
+  const button = byId<HTMLButtonElement>('insert-table');
+  const out = byId('insert-result');
+  button.disabled = true;
+  out.className = 'result';
+  out.textContent = '';
+  try {
+    // Loaded on first use: the starter table and its notes are not part of the page's own JavaScript.
+    const { insertStarterTable } = await import(/* webpackChunkName: "insert-table" */ './insert-table');
+    const r = await insertStarterTable(Excel, askInPane, notes);
+    out.className = `result ${r.written ? 'ok' : ''}`;
+    out.textContent = r.written
+      ? `Wrote the project table at ${r.sheet}!${r.area.split(':')[0]}: header, an invented example row (replace it with your studies) and its HUSH.PLAN outputs.` +
+        (r.notes ? ' Hover a header for its meaning and unit.' : ' Header notes were left out: this Excel lacks ExcelApi 1.18 (notes).')
+      : 'Nothing written: the sheet is as it was.';
+  } catch (e) {
+    out.className = 'result bad';
+    out.textContent = `Insert project table failed: ${errorText(e)}`;
+  } finally {
+    button.disabled = false;
+  }
 }
 
 // ---------------------------------------------------------------- study and options
@@ -192,7 +248,7 @@ function optionCell(o: OptionPlan): HTMLElement {
 /** What the cost axis shows: the price when the row has one, else the runtime, else the cell count. */
 function costMeasure(plan: Plan): { label: string; value: (p: Plan) => number | null } {
   if (plan.cost.runtime && plan.cost.runtime.cost !== null) {
-    return { label: "cost (estimate, in the price's currency)", value: (p) => p.cost.runtime?.cost ?? null };
+    return { label: "cost (estimate, price's currency)", value: (p) => p.cost.runtime?.cost ?? null };
   }
   if (plan.cost.runtime) {
     // A unit that keeps the ticks short: hours, minutes or seconds, from this study's runtime.
@@ -219,12 +275,20 @@ function renderOptions(): void {
       const rt = p.cost.runtime;
       // data-value keeps the plan's exact number beside the rounded text.
       const cell = (field: string, value: number | null, text: string) => el('td', { 'data-field': field, 'data-value': value === null ? '' : String(value) }, text);
+      const worst = cell('worst', p.design.worstAmplitude, sig(p.design.worstAmplitude));
+      worst.append(el('br'), el('span', { class: 'small', 'data-field': 'worst-db' }, decibels(p.design.worstAmplitude)));
       tr.append(
         cell('layers', p.design.layers, String(p.design.layers)),
-        cell('worst', p.design.worstAmplitude, sig(p.design.worstAmplitude)),
+        worst,
         cell('overhead', p.cost.domain.overheadPercent, percent(p.cost.domain.overheadPercent)),
-        cell('runtime', rt ? rt.totalSeconds / 3600 : null, rt ? hours(rt.totalSeconds / 3600) : '—'),
-        cell('cost', rt ? rt.cost : null, rt && rt.cost !== null ? money(rt.cost) : '—'),
+        // Runtime and cost share a column (two lines) so the table fits a 320 px pane.
+        el(
+          'td',
+          {},
+          el('span', { 'data-field': 'runtime', 'data-value': rt ? String(rt.totalSeconds / 3600) : '' }, rt ? hours(rt.totalSeconds / 3600) : '—'),
+          el('br'),
+          el('span', { class: 'small', 'data-field': 'cost', 'data-value': rt && rt.cost !== null ? String(rt.cost) : '' }, rt && rt.cost !== null ? money(rt.cost) : '—'),
+        ),
       );
       tr.addEventListener('click', (ev) => {
         if (ev.target !== radio) {
@@ -234,7 +298,7 @@ function renderOptions(): void {
       });
     } else {
       tr.classList.add('unavailable');
-      tr.appendChild(el('td', { colspan: '5', class: 'small' }, o.error ?? 'no design'));
+      tr.appendChild(el('td', { colspan: '4', class: 'small' }, o.error ?? 'no design'));
     }
     if (o.recommended) tr.classList.add('recommended');
     if (k === state.highlighted) tr.classList.add('highlighted');
@@ -272,7 +336,14 @@ function renderCharts(): void {
   const colours = chartColours();
   const width = chartWidth();
   const target = plan.requiredReflection;
-  const targetLine = { colour: colours.target, label: `target |r| = ${sig(target)}` };
+  const targetLine = { kind: 'target' as const, colour: colours.target, label: `target |r| = ${sig(target)}` };
+  const angleMax = plan.inputs.angleMaxDeg;
+  const angleLine = { kind: 'angle' as const, colour: colours.angle, label: `study's largest angle, ${sig(angleMax)}°` };
+  const bandLine = {
+    kind: 'band' as const,
+    colour: colours.band,
+    label: plan.grid.ppwLong === plan.grid.ppwShort ? `study's frequency, ${sig(plan.grid.ppwShort)} cells/λ` : `band edges, ${sig(plan.grid.ppwShort)} and ${sig(plan.grid.ppwLong)} cells/λ`,
+  };
 
   // Cost against worst reflection, every option a point.
   const measure = costMeasure(plan);
@@ -309,8 +380,10 @@ function renderCharts(): void {
   const angleSpec: ChartSpec = {
     title: `Amplitude reflection against angle of incidence at ${sig(ppwAt)} cells per wavelength; target ${sig(target)}`,
     xLabel: 'angle of incidence (°)',
+    xTight: true,
     yLabel: '|r| (amplitude ratio)',
     yLog: true,
+    yDb: true,
     yInclude: [target],
     series: [
       { label: `discrete grid, ${sig(ppwAt)} cells/λ`, x: va.x, y: va.discrete, colour: colours.discrete },
@@ -318,7 +391,7 @@ function renderCharts(): void {
     ],
     lines: [
       { axis: 'y', value: target, ...targetLine },
-      ...(plan.inputs.angleMaxDeg > 0 ? [{ axis: 'x' as const, value: plan.inputs.angleMaxDeg, ...targetLine }] : []),
+      ...(angleMax > 0 ? [{ axis: 'x' as const, value: angleMax, ...angleLine }] : []),
     ],
   };
   // A 1-D grid has no oblique incidence: no angle chart, and the caption says why.
@@ -342,6 +415,7 @@ function renderCharts(): void {
     xLog: true,
     xTight: true,
     yLog: true,
+    yDb: true,
     yInclude: [target],
     series: [
       { label: 'discrete, 0°', x: v0.x, y: v0.discrete, colour: colours.discrete },
@@ -356,8 +430,8 @@ function renderCharts(): void {
     lines: [
       { axis: 'y', value: target, ...targetLine },
       // The study's band, where the axis is wider than it.
-      { axis: 'x', value: plan.grid.ppwShort, ...targetLine },
-      ...(plan.grid.ppwLong !== plan.grid.ppwShort ? [{ axis: 'x' as const, value: plan.grid.ppwLong, ...targetLine }] : []),
+      { axis: 'x', value: plan.grid.ppwShort, ...bandLine },
+      ...(plan.grid.ppwLong !== plan.grid.ppwShort ? [{ axis: 'x' as const, value: plan.grid.ppwLong, ...bandLine }] : []),
     ],
   };
   state.charts.push(renderChart(byId('chart-ppw'), ppwSpec, colours, width));
@@ -380,6 +454,7 @@ function resetVerify(): void {
   const r = byId('verify-result');
   r.textContent = '';
   r.className = 'result';
+  delete r.dataset.difference;
   byId<HTMLButtonElement>('verify').disabled = false;
   byId<HTMLButtonElement>('cancel').disabled = true;
 }
@@ -463,9 +538,18 @@ async function apply(): Promise<void> {
   try {
     const report = await state.workbook.writeOutputs(row, outputValues(opt.plan));
     out.className = 'result ok';
-    out.textContent =
-      `Wrote ${report.cells.length} output cells of ${row.label} (${optionName(opt)}): ${summariseCells(report.cells)}.` +
-      (report.missing.length ? ` No column for ${report.missing.join(', ')}.` : '');
+    out.textContent = '';
+    // One line to read; the cells written (and any output without a column) behind a disclosure.
+    out.append(
+      el('span', { class: 'headline' }, `${applyHeadline(report.cells.length, report.row)}.`),
+      el(
+        'details',
+        { class: 'written-cells' },
+        el('summary', {}, 'which cells'),
+        el('p', {}, `${row.label}, ${optionName(opt)}: ${report.cells.join(', ')}.`),
+        ...(report.missing.length ? [el('p', {}, `No column for ${report.missing.join(', ')}.`)] : []),
+      ),
+    );
     out.dataset.cells = JSON.stringify(report.cells);
   } catch (e) {
     out.className = 'result bad';
@@ -473,11 +557,6 @@ async function apply(): Promise<void> {
   } finally {
     button.disabled = false;
   }
-}
-
-/** "Sheet1!H5, Sheet1!I5, …" → "Sheet1!H5 … Sheet1!AK5" style summary when long. */
-function summariseCells(cells: string[]): string {
-  return cells.join(', ');
 }
 
 // ---------------------------------------------------------------- start

@@ -39,6 +39,8 @@ export interface ChartColours {
   discrete2: string;
   continuous: string;
   target: string;
+  band: string;
+  angle: string;
   measured: string;
   measured2: string;
   option: string;
@@ -57,6 +59,8 @@ export function chartColours(el: Element = document.documentElement): ChartColou
     discrete2: v('--chart-discrete-2', '#6b8fd6'),
     continuous: v('--chart-continuous', '#8a5a00'),
     target: v('--chart-target', '#b3261e'),
+    band: v('--chart-band', '#5c5f66'),
+    angle: v('--chart-angle', '#00838f'),
     measured: v('--chart-measured', '#0b7a3b'),
     measured2: v('--chart-measured-2', '#7b3fb3'),
     option: v('--chart-option', '#1f5fbf'),

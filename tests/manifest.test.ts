@@ -88,14 +88,17 @@ describe('manifest.xml', () => {
     expect(APP_VERSION).toBe(pkg.version);
   });
 
-  it('requires the SharedRuntime and CustomFunctionsRuntime 1.1 sets', () => {
+  it('requires SharedRuntime 1.1 and CustomFunctionsRuntime 1.2, the set of CustomFunctions.Error the functions return', () => {
     const sets = children(child(child(app, 'Requirements'), 'Sets'), 'Set').map((s) => [attr(s, 'Name'), attr(s, 'MinVersion')]);
     expect(sets).toEqual(
       expect.arrayContaining([
         ['SharedRuntime', '1.1'],
-        ['CustomFunctionsRuntime', '1.1'],
+        // "CustomFunctions.Error class … API set: CustomFunctionsRuntime 1.2" (Microsoft Learn, Office JavaScript API reference).
+        ['CustomFunctionsRuntime', '1.2'],
       ]),
     );
+    // The requirement follows from the code: the worksheet functions report errors with messages.
+    expect(readFileSync(path.join(root, 'src/functions/errors.ts'), 'utf8')).toMatch(/new CustomFunctions\.Error\(\w+, /);
   });
 
   it('declares one long-lived runtime on taskpane.html, first inside <Host>', () => {

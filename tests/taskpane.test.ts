@@ -12,9 +12,13 @@ import { parseCsv } from '../src/plan/csv';
 import { OUTPUT_NAMES, planRow, planToRow, rowFromTable } from '../src/plan';
 import { DEMO_PROJECT_CSV } from '../taskpane/demo-table';
 import { CFS_RELEVANT_PPW, TABLE_SCHEMA, alphaChoices, designAlphaMax, optionPlans, outputValues, studyPlan, suggestedAlphaMax } from '../taskpane/plan-adapter';
-import { alignSeries, linearTicks, logRange } from '../taskpane/charts';
+import { decadeLabel, layoutChart, linearTicks, logRange, niceTicks, type ChartSpec } from '../taskpane/charts';
 import { angleAxisEnd, ppwAxis, reflectionVsAngle, reflectionVsPpw } from '../taskpane/curves';
-import { hours, money, percent, sig } from '../taskpane/format';
+import { applyHeadline, decibels, hours, money, percent, sig, themeLabel } from '../taskpane/format';
+import { VALIDATED_ROWS, insertStarterTable, starterSheet, type ExcelRunner } from '../taskpane/insert-table';
+import { EXCEL_API_NEEDS, checkExcelApi } from '../taskpane/requirements';
+import { starterTable } from '../src/plan/starter';
+import { OUTPUT_COLUMNS } from '../src/plan';
 import { luminance } from '../taskpane/theme';
 import { largestRelativeDifference } from '../taskpane/verify-protocol';
 import { PANE_BUDGET_1D, PANE_BUDGET_2D, chooseRuns, measuredPpw, widenedBand } from '../taskpane/verify-plan';
@@ -141,16 +145,40 @@ describe('curves', () => {
 });
 
 describe('chart helpers', () => {
-  it('align series on the union of their x values', () => {
-    const d = alignSeries([
-      { x: [1, 3], y: [10, 30] },
-      { x: [2, 3], y: [20, null] },
-    ]);
-    expect(d.x).toEqual([1, 2, 3]);
-    expect(d.ys).toEqual([
-      [10, null, 30],
-      [null, 20, null],
-    ]);
+  it('lay out a log |r| chart with its dB axis on the same scale (dB = 20·log10|r|)', () => {
+    const spec: ChartSpec = {
+      title: 't',
+      xLabel: 'angle of incidence (°)',
+      yLabel: '|r| (amplitude ratio)',
+      yLog: true,
+      yDb: true,
+      series: [{ label: 'a', x: [0, 30, 60, 85], y: [1e-5, 2e-5, null, 0.3], colour: '#000' }],
+      lines: [
+        { axis: 'y', value: 1e-3, kind: 'target', colour: '#f00', label: 'target' },
+        { axis: 'x', value: 60, kind: 'angle', colour: '#0f0', label: 'angle' },
+      ],
+    };
+    const L = layoutChart(spec, 296, 220);
+    // The y range is whole decades around the data and the target: 1e-5 … 1.
+    expect(L.yTicks.map((t) => t.label)).toEqual(['1e-5', '1e-4', '1e-3', '0.01', '0.1', '1']);
+    // derived: |r| = 1e-3 is −60 dB, so the −60 dB tick sits exactly at the 0.001 tick.
+    const db60 = L.dbTicks.find((t) => t.label === '\u221260');
+    const r3 = L.yTicks.find((t) => t.label === '1e-3');
+    expect(db60 && r3 && Math.abs(db60.y - r3.y)).toBeLessThan(1e-9);
+    // The null point splits the line in two.
+    expect(L.series[0].paths.map((p) => p.length)).toEqual([2, 1]);
+    // Everything stays inside the chart: tick labels at ~0.6 em a character, titles above the plot.
+    expect(L.plot.left).toBeGreaterThanOrEqual(6 + 4 * 11 * 0.6);
+    expect(L.plot.right).toBeLessThan(296);
+    expect(L.yLabel.y).toBeLessThan(L.plot.top);
+    expect(L.lines.map((l) => l.spec.kind)).toEqual(['target', 'angle']);
+  });
+
+  it('place linear ticks at 1, 2 or 5 × 10^k and decade labels', () => {
+    expect(niceTicks(0, 1, 5)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
+    expect(niceTicks(20.3, 36.9, 4)).toEqual([25, 30, 35]);
+    expect(decadeLabel(-2)).toBe('0.01');
+    expect(decadeLabel(-3)).toBe('1e-3');
   });
 
   it('choose log ranges and tick labels', () => {
@@ -171,6 +199,138 @@ describe('formatting', () => {
     expect(hours(100)).toBe('4.17 d');
     expect(money(1234.5)).toBe('1,234.50');
     expect(money(0.00555)).toBe('0.00555');
+  });
+
+  it('gives reflections in decibels, 20·log10|r| (the amplitude convention)', () => {
+    // derived: 20·log10(1e-3) = −60; 20·log10(0.5) = −6.0206.
+    expect(decibels(1e-3)).toBe('\u221260.0 dB');
+    expect(decibels(0.5)).toBe('\u22126.0 dB');
+    expect(decibels(0)).toBe('—');
+  });
+
+  it("says Apply's result in one line", () => {
+    expect(applyHeadline(35, 1)).toBe('Wrote 35 cells of row 1');
+    expect(applyHeadline(1, 5)).toBe('Wrote 1 cell of row 5');
+  });
+
+  it('labels the theme button with its setting and what a press does (auto → light → dark → auto)', () => {
+    expect(themeLabel('auto', 'dark').text).toBe('Theme: auto');
+    expect(themeLabel('auto', 'dark').aria).toContain('dark now');
+    expect(themeLabel('auto', 'dark').aria).toContain('switch to light');
+    expect(themeLabel('light', 'light').aria).toContain('switch to dark');
+    expect(themeLabel('dark', 'dark').aria).toContain('switch to auto');
+  });
+});
+
+describe('Insert project table', () => {
+  const table = starterTable();
+  const s = starterSheet(table);
+
+  it('lays out the header (inputs, then outputs), the example row, choice lists and the HUSH.PLAN formula', () => {
+    expect(s.width).toBe(table.inputs.length + table.outputs.length);
+    expect(s.header.slice(0, s.inputCount)).toEqual(table.inputs.map((c) => c.name));
+    // HUSH.PLAN spills its values in OUTPUT_COLUMNS order, so the headers beside the formula must be in that order.
+    expect(table.outputs.map((o) => o.header).length).toBe(OUTPUT_COLUMNS.length);
+    expect(s.example[table.inputs.findIndex((c) => c.name === 'band_short')]).toBe('2.2 GHz');
+    expect(s.example.length).toBe(s.inputCount);
+    // Columns by spreadsheet lettering (common practice: A…Z, AA…): the formula sits in the first output column.
+    const last = (n: number) => (n <= 26 ? String.fromCharCode(64 + n) : String.fromCharCode(64 + Math.floor((n - 1) / 26)) + String.fromCharCode(65 + ((n - 1) % 26)));
+    expect(s.formula.address).toBe(`${last(s.inputCount + 1)}2`);
+    expect(s.formula.formula).toBe(`=HUSH.PLAN($A$1:$${last(s.inputCount)}$1,A2:${last(s.inputCount)}2)`);
+    expect(s.area).toBe(`A1:${last(s.width)}${VALIDATED_ROWS + 1}`);
+    const choice = table.inputs.filter((c) => c.choices);
+    expect(s.validations.length).toBe(choice.length);
+    const phase = table.inputs.findIndex((c) => c.name === 'phase');
+    expect(s.validations).toContainEqual({ address: `${last(phase + 1)}2:${last(phase + 1)}201`, source: 'worst,random' });
+    expect(s.notes.length).toBe(s.width);
+    expect(s.notes[0]).toEqual({ address: 'A1', text: table.inputs[0].note });
+  });
+
+  /** A stand-in for Excel.run that records what a batch writes, with a sheet whose area holds `used`. */
+  function fakeExcel(used: string | null) {
+    const log: string[] = [];
+    const range = (address: string) => ({
+      getUsedRangeOrNullObject: () => ({ load: () => undefined, isNullObject: used === null, address: used ?? '' }),
+      set values(v: unknown[][]) {
+        log.push(`values ${address} ${v[0].length}`);
+      },
+      set formulas(v: string[][]) {
+        log.push(`formula ${address} ${v[0][0]}`);
+      },
+      clear: (what: string) => log.push(`clear ${address} ${what}`),
+      dataValidation: {
+        clear: () => undefined,
+        set rule(r: { list: { source: string } }) {
+          log.push(`list ${address} ${r.list.source}`);
+        },
+      },
+      format: { font: { set bold(_: boolean) {} } },
+    });
+    const sheet = {
+      name: 'Sheet1',
+      load: () => undefined,
+      getRange: range,
+      getRangeByIndexes: (r: number, c: number, h: number, w: number) => range(`${r},${c},${h},${w}`),
+      notes: { add: () => log.push('note'), getItemOrNullObject: () => ({ load: () => undefined, isNullObject: true }) },
+    };
+    let syncs = 0;
+    const context = { workbook: { worksheets: { getActiveWorksheet: () => sheet } }, sync: async () => void syncs++ };
+    const excel: ExcelRunner = { run: (batch) => batch(context as unknown as Excel.RequestContext) };
+    return { excel, log, syncs: () => syncs };
+  }
+
+  it('writes into an empty area without asking, in one batch', async () => {
+    const f = fakeExcel(null);
+    let asked = 0;
+    const r = await insertStarterTable(f.excel, async () => (asked++, true), false, s);
+    expect(asked).toBe(0);
+    expect(r).toMatchObject({ written: true, sheet: 'Sheet1', notes: false, replaced: null });
+    expect(f.log).toContain(`values 0,0,1,${s.width} ${s.width}`);
+    expect(f.log).toContain(`values 1,0,1,${s.inputCount} ${s.inputCount}`);
+    expect(f.log).toContain(`formula ${s.formula.address} ${s.formula.formula}`);
+    expect(f.log.filter((l) => l.startsWith('list')).length).toBe(s.validations.length);
+    expect(f.log).not.toContain('note');
+    expect(f.log.some((l) => l.startsWith('clear'))).toBe(false);
+  });
+
+  it('asks before writing over a non-empty area, and writes nothing when refused', async () => {
+    const f = fakeExcel('Sheet1!B3:C4');
+    const questions: string[] = [];
+    const r = await insertStarterTable(f.excel, async (q) => (questions.push(q), false), true, s);
+    expect(questions.length).toBe(1);
+    expect(questions[0]).toContain('Sheet1!B3:C4 is not empty');
+    expect(r.written).toBe(false);
+    expect(f.log).toEqual([]);
+    const g = fakeExcel('Sheet1!B3:C4');
+    const w = await insertStarterTable(g.excel, async () => true, true, s);
+    expect(w).toMatchObject({ written: true, notes: true, replaced: 'Sheet1!B3:C4' });
+    expect(g.log[0]).toBe(`clear ${s.area} Contents`);
+    expect(g.log.filter((l) => l === 'note').length).toBe(s.width);
+  });
+});
+
+describe('Excel API requirement check', () => {
+  it('names the missing sets and the pane work they stop; notes (1.18) are optional', () => {
+    const upTo = (max: number) => (_: string, v: string) => Number(v.split('.')[1]) <= max;
+    expect(checkExcelApi(upTo(20)).message).toBe('');
+    const old = checkExcelApi(upTo(7));
+    expect(old.missing.map((n) => n.version)).toEqual(['1.8', '1.9']);
+    expect(old.message).toContain('lacks ExcelApi 1.8, 1.9');
+    const no18 = checkExcelApi(upTo(17));
+    expect(no18.missing).toEqual([]);
+    expect(no18.skipped.map((n) => n.version)).toEqual(['1.18']);
+    expect(no18.message).toContain('header notes');
+  });
+
+  it('covers every Excel call of the pane and the Office workbook', () => {
+    const src = ['taskpane/insert-table.ts', 'src/workbook/office.ts'].map((f) => fs.readFileSync(path.join(ROOT, f), 'utf8')).join('\n');
+    // Calls above ExcelApi 1.1, by the requirement set on each one's page of the Excel JavaScript API reference.
+    const calls = ['getUsedRangeOrNullObject', 'getSurroundingRegion', 'getRangeByIndexes', 'dataValidation', 'getTables', 'getFirst', 'notes'];
+    const needs = EXCEL_API_NEEDS.map((n) => n.use).join(' ');
+    for (const c of calls) {
+      expect(src, c).toContain(c);
+      expect(needs, c).toContain(c);
+    }
   });
 });
 

@@ -113,6 +113,7 @@ describe('Office.js workbook', () => {
     const report = await wb.writeOutputs(row, { cost: 12.5, layers: 9, 'absent output': 1 });
     // Columns D (layers) and F (cost) of sheet row 5; "absent output" has no column.
     expect(report.cells).toEqual(['Sheet1!D5', 'Sheet1!F5']);
+    expect(report.row).toBe(5);
     expect(report.missing).toEqual(['absent output']);
     expect(writes.map((w) => [w.row, w.column, w.values])).toEqual([
       [4, 3, [[9]]],
@@ -182,6 +183,7 @@ describe('in-page workbook', () => {
     wb.onChange((c) => seen.push(c));
     const report = await wb.writeOutputs(row, { layers: 4, cost: 1 });
     expect(report.cells).toEqual(['demo row 2, layers', 'demo row 2, cost']);
+    expect(report.row).toBe(2);
     expect(seen).toEqual([[[1, 2], [1, 4]]]);
     const expected = rows();
     expected[1][2] = 4;

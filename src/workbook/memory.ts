@@ -88,7 +88,7 @@ export class MemoryWorkbook implements Workbook {
     const cells = writes.map(([r, c]) => `${this.name} row ${r + 1}, ${this.header[c]}`);
     const changed = writes.map(([r, c]) => [r, c] as [number, number]);
     this.listeners.forEach((l) => l(changed));
-    return { cells, missing };
+    return { cells, row: h.row + 1, missing };
   }
 
   private columnOf(field: string): number {

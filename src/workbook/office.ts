@@ -146,7 +146,7 @@ export class OfficeWorkbook implements Workbook {
         sheet.getRangeByIndexes(h.row, h.firstColumn + c, 1, 1).values = [[value]];
       }
       if (writes.length) await context.sync();
-      return { cells: writes.map(([c]) => cellAddress(h.sheet, h.row, h.firstColumn + c)), missing };
+      return { cells: writes.map(([c]) => cellAddress(h.sheet, h.row, h.firstColumn + c)), row: h.row + 1, missing };
     });
   }
 }

@@ -45,6 +45,8 @@ export interface SelectedRow {
 export interface WriteReport {
   /** Cells written, in column order, e.g. ["Sheet1!H5", "Sheet1!I5"]. */
   cells: string[];
+  /** The row written, as its sheet shows it (1-based: the worksheet row in Excel, the table row in the demo). */
+  row: number;
   /** Output fields that had no column in the table (nothing written for them). */
   missing: string[];
 }
