@@ -4,6 +4,7 @@ import { inputUnit, isInputField } from './plan-adapter';
 import type { RowValues } from '../src/workbook/types';
 import { byId, el } from './dom';
 import { cellText, sig } from './format';
+import { budgetBarSvg, budgetSegments, cellCostSvg, cellPoints, costLabel } from './budget-view';
 
 export function renderStudy(plan: Plan, values: RowValues): void {
   const i = plan.inputs;
@@ -22,6 +23,14 @@ export function renderStudy(plan: Plan, values: RowValues): void {
   pair('Angles', i.dimensions === 1 ? 'normal incidence (1-D)' : `0° to ${sig(i.angleMaxDeg)}°`);
   pair('Grid', `${i.dimensions}-D, Courant number ${sig(i.courant)} (limit ${sig(g.courantLimit)})`);
   budget.appendChild(dl);
+
+  // The breakdown: markup built from numbers and our own labels only (budget-view.ts escapes text).
+  byId('accuracy-bar').innerHTML = budgetBarSvg(budgetSegments(plan), i.intensityError);
+  const points = cellPoints(plan);
+  const several = points.filter((p) => p.cost !== null).length > 1;
+  byId('cell-cost').innerHTML = several ? cellCostSvg(points, costLabel(plan)) : '';
+  byId('cell-cost').hidden = !several;
+  byId('cell-cost-title').hidden = !several;
 
   const ul = byId('warnings');
   ul.textContent = '';
