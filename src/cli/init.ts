@@ -7,10 +7,18 @@ import { existsSync } from 'fs';
 import { tableFormat } from '../plan/table-file';
 import { parseArgs, UsageError } from './args';
 import type { CommandIO } from './io';
+import type { CommandSpec } from './options';
 
-export const initUsage =
-  'hush init [FILE.xlsx|FILE.csv]  (writes a starter project table, default hush-project.xlsx: one column per input field with its meaning, unit and default in the header note, ' +
-  'choice lists on the fixed-choice columns, one invented example row and, in an .xlsx, a HUSH.PLAN formula in its output columns; an existing file is never replaced)';
+/** `hush init --help`. */
+export const initSpec: CommandSpec = {
+  name: 'init',
+  summary:
+    "Writes a starter project table: one column per input field with its meaning, unit and default in the header note, choice lists on the fixed-choice columns, one invented example row and, in an .xlsx, a HUSH.PLAN formula in the example row's output columns (the same file plans itself in Excel with the add-in). An existing file is never replaced.",
+  fields: [],
+  positional: '[FILE.xlsx|FILE.csv]',
+  notes: ['FILE defaults to hush-project.xlsx. Then: hush plan FILE --out PLAN.xlsx'],
+};
+
 
 export async function initCommand(argv: string[], io: CommandIO): Promise<number> {
   const args = parseArgs(argv, {});

@@ -25,8 +25,8 @@ export const commands: Record<string, Entry> = {
   dispersion: { summary: 'numerical phase and group velocity of the Yee grid along a direction', load: async () => { const m = await import('./dispersion'); return { run: m.dispersionCommand, spec: m.dispersionSpec }; } },
   sweep: { summary: 'exact |r| (and dB) of one design over cells per wavelength × angle, as CSV', load: async () => { const m = await import('./sweep'); return { run: m.sweepCommand, spec: m.sweepSpec }; } },
   verify: { summary: 'time-domain check of a design against its exact predicted reflection', load: async () => { const m = await import('./verify'); return { run: m.verifyCommand, spec: m.verifySpec }; } },
-  init: { summary: 'write a starter project table (.xlsx or .csv) with an invented example row', load: async () => { const m = await import('./init'); return { run: m.initCommand, usage: m.initUsage }; } },
-  plan: { summary: 'plan every study of a project table (.csv/.xlsx) and write the plan', load: async () => { const m = await import('./plan'); return { run: m.planCommand, usage: m.planUsage }; } },
+  init: { summary: 'write a starter project table (.xlsx or .csv) with an invented example row', load: async () => { const m = await import('./init'); return { run: m.initCommand, spec: m.initSpec }; } },
+  plan: { summary: 'plan every study of a project table (.csv/.xlsx) and write the plan', load: async () => { const m = await import('./plan'); return { run: m.planCommand, spec: m.planSpec }; } },
 };
 
 function help(): string {

@@ -47,9 +47,10 @@ export function usageLine(spec: CommandSpec): string {
 
 /** The whole --help text of a command: usage, one line per option (meaning, forms, range, default), notes. */
 export function helpText(spec: CommandSpec): string {
-  const lines = [`usage: ${usageLine(spec)}`, '', spec.summary, '', 'options:'];
+  const switches = Object.entries(spec.switches ?? {});
+  const lines = [`usage: ${usageLine(spec)}`, '', spec.summary, '', spec.fields.length || switches.length ? 'options:' : 'options: none'];
   for (const name of spec.fields) lines.push(`  ${optionHelp(inputField(name))}`);
-  for (const [name, s] of Object.entries(spec.switches ?? {})) lines.push(`  ${`--${name}${s.value ? ` ${s.value}` : ''}`.padEnd(34)}${s.help}`);
+  for (const [name, s] of switches) lines.push(`  ${`--${name}${s.value ? ` ${s.value}` : ''} `.padEnd(34)}${s.help}`);
   if (spec.notes?.length) lines.push('', ...spec.notes);
   return lines.join('\n');
 }

@@ -23,11 +23,24 @@ import {
 import { parseArgs, stringOption, UsageError } from './args';
 import { fmt, type CommandIO } from './io';
 import { progressBar } from './progress';
+import type { CommandSpec } from './options';
 
-export const planUsage =
-  'hush plan TABLE.csv|TABLE.xlsx [--sheet NAME|N] [--out PLAN.xlsx|PLAN.csv|PLAN.json [--replace]] [--json]  (one study per row; header names are the plan fields, see src/plan/fields.ts; ' +
-  'the header row may sit below title rows; --sheet picks the sheet of an .xlsx by name or position, default the first visible sheet with a header; ' +
-  'the table itself is never written; an existing --out file is replaced only with --replace)';
+/** `hush plan --help` (the options are parsed by parseArgs below; this states them). */
+export const planSpec: CommandSpec = {
+  name: 'plan',
+  summary:
+    'Plans every study (row) of a project table: the required reflection, the thinnest absorber on the grid, the accuracy split and the cells, memory, steps, runtime and cost it adds (runtime and cost are planning estimates). Header names are the input fields (hush init writes a starter table; a header may state its unit, "cell [um]"); other columns are kept. The table itself is never written.',
+  fields: [],
+  positional: 'TABLE.csv|TABLE.xlsx',
+  switches: {
+    sheet: { value: 'NAME|N', help: 'the sheet of an .xlsx, by name or position; default: the first visible sheet with a header' },
+    out: { value: 'PLAN.xlsx|PLAN.csv|PLAN.json', help: 'write the table with the plan in added columns (.xlsx: with a summary sheet for a proposal); default: print only' },
+    replace: { help: 'with --out: replace an existing file (never the table itself)' },
+    json: { help: 'print the rows as JSON instead of the table' },
+  },
+  notes: ['Exit code 0 when every row planned, 1 when a row failed (its error is in its own row; the others still plan), 2 on bad arguments or an unreadable table.'],
+};
+
 
 /** Device and inode of an existing file, or null. */
 function identity(file: string): string | null {
