@@ -9,6 +9,7 @@ import type { CommandIO } from '../src/cli/io';
 import { OUTPUT_NAMES, planHeaderText } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
 import { plainNumber } from '../src/plan/table/text';
+import { MAX_SHOWN_ROWS } from '../src/cli/plan';
 
 const dir = mkdtempSync(join(tmpdir(), 'hush-plan-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -205,5 +206,21 @@ describe('hush plan', () => {
     expect(j[0].outputs.steps).toBeGreaterThan(0);
     const tty = await run(['plan', xin], true);
     expect(tty.err).toMatch(/\[#+\] 1\/1/);
+  });
+  it(`a long table prints its first ${MAX_SHOWN_ROWS} studies and says how many it left out; the totals count every row, --json carries all`, async () => {
+    const rows = ['study,dimensions,band_short,cell,cells_x,intensity_error'];
+    // 150 studies that differ only in their names: one plan, reused (bounded work).
+    for (let k = 1; k <= 150; k++) rows.push(`s${k},1,1550 nm,50 nm,100,1%`);
+    rows.push('bad,1,1550 nm,,100,1%');
+    const f = join(dir, 'long.csv');
+    writeFileSync(f, rows.join('\n'));
+    const r = await run(['plan', f]);
+    expect(r.code).toBe(1);
+    const lines = r.out.split('\n');
+    expect(lines.filter((l) => /^s\d+ /.test(l))).toHaveLength(MAX_SHOWN_ROWS);
+    expect(lines).toContain('… and 51 more studies (with their notes) not shown here: the totals count every row, and --out writes each one');
+    expect(lines.some((l) => l.startsWith('total: 150 studies,'))).toBe(true);
+    expect(r.err).toMatch(/row 152: cell is required/);
+    expect(JSON.parse((await run(['plan', f, '--json'])).out)).toHaveLength(151);
   });
 });

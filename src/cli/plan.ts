@@ -25,6 +25,13 @@ import { fmt, type CommandIO } from './io';
 import { progressBar } from './progress';
 import type { CommandSpec } from './options';
 
+/**
+ * Rows printed in the terminal table (and failed rows reported on stderr):
+ * a table of 100,000 studies prints its first rows, the totals of all, and
+ * says how many it left out; --out and --json carry every row.
+ */
+export const MAX_SHOWN_ROWS = 100;
+
 /** `hush plan --help` (the options are parsed by parseArgs below; this states them). */
 export const planSpec: CommandSpec = {
   name: 'plan',
@@ -206,8 +213,13 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     const rowNotes: string[] = [];
     const studyColumns = fieldColumns(table).get('study');
     const head = ['study', 'layers', 'order', 'worst |r|', 'dB', 'grid', 'overhead %', 'error % (absorber+dispersion+run)', 'memory GB', 'steps', 'runtime h', 'cost', 'notes'];
+    let hidden = 0;
     planned.forEach((r, i) => {
       if (!r.outputs) return;
+      if (summary.length >= MAX_SHOWN_ROWS) {
+        hidden++;
+        return;
+      }
       const label = rowLabel(studyColumns && studyColumns.length === 1 ? r.row.values[studyColumns[0]] : undefined, r.row.number);
       const plan = plans[i];
       if (!plan) {
@@ -242,6 +254,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
     say(read);
     io.out(line(head.map((h, c) => (c === 7 ? 'error %' : h))));
     for (const r of shown) io.out(line(r));
+    if (hidden) io.out(`… and ${whole(hidden)} more ${hidden === 1 ? 'study' : 'studies'} (with their notes) not shown here: the totals count every row, and --out writes each one`);
     if (rowNotes.length) {
       io.out('');
       io.out('error % is the error split: absorber + dispersion + run length, in % of intensity. Notes:');
@@ -253,8 +266,10 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   }
 
   if (out !== undefined && !args.options.has('json')) say(`wrote ${out}`);
+  let reported = 0;
   planned.forEach((r, i) => {
-    if (r.failed) warn(`hush plan: row ${r.row.number}: ${errors[i] ?? ''}`);
+    if (r.failed && reported++ < MAX_SHOWN_ROWS) warn(`hush plan: row ${r.row.number}: ${errors[i] ?? ''}`);
   });
+  if (reported > MAX_SHOWN_ROWS) warn(`hush plan: … and ${whole(reported - MAX_SHOWN_ROWS)} more rows failed; --out writes each error in its row's notes`);
   return totals.failed ? 1 : 0;
 }
