@@ -36,8 +36,8 @@ export interface LineGrid {
   left?: CpmlCoefficients | null;
 }
 
-/** One absorber side's coefficients and auxiliary ψ storage. */
-interface Side {
+/** One absorber side's coefficients and auxiliary ψ storage (also the mode chain's, mode-line.ts). */
+export interface Side {
   layers: number;
   eB: Float64Array;
   eA: Float64Array;
@@ -49,7 +49,7 @@ interface Side {
   psiH: Float64Array;
 }
 
-function makeSide(c: CpmlCoefficients | null | undefined): Side | null {
+export function makeSide(c: CpmlCoefficients | null | undefined): Side | null {
   if (c === null || c === undefined) return null;
   const n = c.layers;
   wholeInRange('absorber layers', n, 1, MAX_LINE_NODES);

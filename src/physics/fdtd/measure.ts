@@ -473,6 +473,38 @@ function referenceGeometry(c: CommonPlan, t: Timing, rightGap: number): { cells:
   return { cells: SOURCE_TO_MONITOR + Math.max(rightGap, c.monitorDistance + REFERENCE_GAP), right: cpmlCoefficients(resolveDesign(REFERENCE_TERMINATION), c.courantMedium) };
 }
 
+/**
+ * A measurement as a pair of runs (absorber, reference) recorded at one probe:
+ * `steps(k, from, recAbs, recRef)` advances both by k steps from step `from`,
+ * `finish` analyses the complete records.
+ */
+function pairRun(
+  totalSteps: number,
+  cellUpdatesPerStep: number,
+  steps: (k: number, from: number, recAbs: Float64Array, recRef: Float64Array) => void,
+  finish: (recAbs: Float64Array, recRef: Float64Array) => ReflectionMeasurement,
+): MeasurementRun {
+  const recAbs = new Float64Array(totalSteps);
+  const recRef = new Float64Array(totalSteps);
+  let done = 0;
+  return {
+    totalSteps,
+    get stepsDone() {
+      return done;
+    },
+    cellUpdatesPerStep,
+    advance(n: number) {
+      const k = Math.min(Math.max(0, Math.floor(n)), totalSteps - done);
+      steps(k, done, recAbs, recRef);
+      done += k;
+    },
+    result() {
+      if (done < totalSteps) throw new Error(`measurement not complete (${done} of ${totalSteps} steps)`);
+      return finish(recAbs, recRef);
+    },
+  };
+}
+
 /** A 1-D measurement at normal incidence, ready to advance step by step. */
 export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions1D): MeasurementRun {
   const c = checkCommon(design, opts, 1, 0);
@@ -486,26 +518,15 @@ export function createMeasurement1D(design: AbsorberDesign, opts: MeasureOptions
   checkWork(t.steps, abs.nodes + ref.nodes);
   const source = abs.leftInterface + LEFT_GAP;
   const probe = source + SOURCE_TO_MONITOR;
-  const recAbs = new Float64Array(t.steps);
-  const recRef = new Float64Array(t.steps);
-  let done = 0;
-  return {
-    totalSteps: t.steps,
-    get stepsDone() {
-      return done;
+  return pairRun(
+    t.steps,
+    abs.nodes + ref.nodes,
+    (k, from, recAbs, recRef) => {
+      abs.advance(k, from, t.waveform, source, recAbs, probe);
+      ref.advance(k, from, t.waveform, source, recRef, probe);
     },
-    cellUpdatesPerStep: abs.nodes + ref.nodes,
-    advance(steps: number) {
-      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
-      abs.advance(k, done, t.waveform, source, recAbs, probe);
-      ref.advance(k, done, t.waveform, source, recRef, probe);
-      done += k;
-    },
-    result() {
-      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
-      return analyse(c, { kt: 0, angleDeg: 0, transverseCells: 1, transverseModes: 0, engine: 'line', evanescent: false }, 1, t, recAbs, recRef, abs.nodes, ref.nodes);
-    },
-  };
+    (recAbs, recRef) => analyse(c, { kt: 0, angleDeg: 0, transverseCells: 1, transverseModes: 0, engine: 'line', evanescent: false }, 1, t, recAbs, recRef, abs.nodes, ref.nodes),
+  );
 }
 
 /** Period Ny and mode M whose k_t = 2πM/Ny gives the requested angle at phase step ω₀Δt. */
@@ -589,26 +610,15 @@ export function createMeasurement2D(design: AbsorberDesign, opts: MeasureOptions
     norm += profile[j] * profile[j];
   }
   for (let j = 0; j < ny; j++) weights[j] = profile[j] / norm;
-  const recAbs = new Float64Array(t.steps);
-  const recRef = new Float64Array(t.steps);
-  let done = 0;
-  return {
-    totalSteps: t.steps,
-    get stepsDone() {
-      return done;
+  return pairRun(
+    t.steps,
+    abs.nodes + ref.nodes,
+    (k, from, recAbs, recRef) => {
+      abs.advance(k, from, t.waveform, source, profile, recAbs, probe, weights);
+      ref.advance(k, from, t.waveform, source, profile, recRef, probe, weights);
     },
-    cellUpdatesPerStep: abs.nodes + ref.nodes,
-    advance(steps: number) {
-      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
-      abs.advance(k, done, t.waveform, source, profile, recAbs, probe, weights);
-      ref.advance(k, done, t.waveform, source, profile, recRef, probe, weights);
-      done += k;
-    },
-    result() {
-      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
-      return analyse(c, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes, engine: 'grid', evanescent: false }, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
-    },
-  };
+    (recAbs, recRef) => analyse(c, { kt, angleDeg, transverseCells: ny, transverseModes: mode.modes, engine: 'grid', evanescent: false }, 2, t, recAbs, recRef, abs.nodes, ref.nodes),
+  );
 }
 
 /**
@@ -627,26 +637,15 @@ function modeRun(c: CommonPlan, t: Timing, a: Analysis, leftGap: number, rightGa
   const ref = new ModeLine({ cells: leftGap + rg.cells, courantMedium: c.courantMedium, transverse: K, left, right: rg.right });
   const source = abs.leftInterface + leftGap;
   const probe = source + SOURCE_TO_MONITOR;
-  const recAbs = new Float64Array(t.steps);
-  const recRef = new Float64Array(t.steps);
-  let done = 0;
-  return {
-    totalSteps: t.steps,
-    get stepsDone() {
-      return done;
+  return pairRun(
+    t.steps,
+    abs.nodes + ref.nodes,
+    (k, from, recAbs, recRef) => {
+      abs.advance(k, from, t.waveform, source, recAbs, probe);
+      ref.advance(k, from, t.waveform, source, recRef, probe);
     },
-    cellUpdatesPerStep: abs.nodes + ref.nodes,
-    advance(steps: number) {
-      const k = Math.min(Math.max(0, Math.floor(steps)), t.steps - done);
-      abs.advance(k, done, t.waveform, source, recAbs, probe);
-      ref.advance(k, done, t.waveform, source, recRef, probe);
-      done += k;
-    },
-    result() {
-      if (done < t.steps) throw new Error(`measurement not complete (${done} of ${t.steps} steps)`);
-      return analyse(c, a, 2, t, recAbs, recRef, abs.nodes, ref.nodes);
-    },
-  };
+    (recAbs, recRef) => analyse(c, a, 2, t, recAbs, recRef, abs.nodes, ref.nodes),
+  );
 }
 
 /** Default monitor-to-interface distance for a near field, cells: its echo decays as e^{−2D/L} on the way back. */

@@ -17,7 +17,7 @@
 import type { CpmlCoefficients } from '../cpml';
 import { HushInputError } from '../errors';
 import { inRange, wholeInRange } from '../validate';
-import { MAX_LINE_NODES } from './line';
+import { makeSide, MAX_LINE_NODES, type Side } from './line';
 
 /** Geometry, absorbers and transverse mode of a mode chain. */
 export interface ModeLineGrid {
@@ -29,34 +29,6 @@ export interface ModeLineGrid {
   transverse: number;
   right?: CpmlCoefficients | null;
   left?: CpmlCoefficients | null;
-}
-
-interface Side {
-  layers: number;
-  eB: Float64Array;
-  eA: Float64Array;
-  eInvKappa: Float64Array;
-  hB: Float64Array;
-  hA: Float64Array;
-  hInvKappa: Float64Array;
-  psiE: Float64Array;
-  psiH: Float64Array;
-}
-
-function makeSide(c: CpmlCoefficients | null | undefined): Side | null {
-  if (c === null || c === undefined) return null;
-  const n = wholeInRange('absorber layers', c.layers, 1, MAX_LINE_NODES);
-  return {
-    layers: n,
-    eB: c.eB.slice(0, n + 1),
-    eA: c.eA.slice(0, n + 1),
-    eInvKappa: c.eInvKappa.slice(0, n + 1),
-    hB: c.hB.slice(0, n),
-    hA: c.hA.slice(0, n),
-    hInvKappa: c.hInvKappa.slice(0, n),
-    psiE: new Float64Array(n),
-    psiH: new Float64Array(n),
-  };
 }
 
 export class ModeLine {
