@@ -94,18 +94,32 @@ export function discreteWavenumberUnchecked(ppw: number, courantMedium: number, 
     throw new HushInputError('cells per wavelength', `cells per wavelength ${ppw} is below the resolvable limit of this grid`);
   }
   if (s === 0 || c === 0) return 2 * Math.asin(Math.sqrt(target));
-  // Newton from the axis solution, safeguarded by bisection on [lo, hi].
+  return solveOnBranch(
+    (q) => {
+      const a = Math.sin((q * c) / 2);
+      const b = Math.sin((q * s) / 2);
+      return a * a + b * b - target;
+    },
+    (q) => 0.5 * (c * Math.sin(q * c) + s * Math.sin(q * s)),
+    target,
+    qMax,
+  );
+}
+
+/**
+ * The root of f on [0, qMax] (f rises monotonically there: Σ sin²(q·c_i/2) −
+ * target), by Newton's method from the axis solution 2·asin(√target),
+ * safeguarded by bisection; `df` is f's derivative.
+ */
+function solveOnBranch(f: (q: number) => number, df: (q: number) => number, target: number, qMax: number): number {
   let lo = 0;
   let hi = qMax;
-  let q = Math.min(2 * Math.asin(Math.sqrt(Math.min(1, target / 1))), qMax * 0.999);
+  let q = Math.min(2 * Math.asin(Math.sqrt(Math.min(1, target))), qMax * 0.999);
   for (let it = 0; it < 60; it++) {
-    const a = Math.sin((q * c) / 2);
-    const b = Math.sin((q * s) / 2);
-    const f = a * a + b * b - target;
-    if (f > 0) hi = q;
+    const v = f(q);
+    if (v > 0) hi = q;
     else lo = q;
-    const df = 0.5 * (c * Math.sin(q * c) + s * Math.sin(q * s));
-    let next = q - f / df;
+    let next = q - v / df(q);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     if (Math.abs(next - q) <= 1e-15 * q) {
       q = next;
@@ -152,24 +166,12 @@ export function discreteWavenumber3DUnchecked(ppw: number, courantMedium: number
   if (target > g(qMax)) {
     throw new HushInputError('cells per wavelength', `cells per wavelength ${ppw} is below the resolvable limit of this grid`);
   }
-  // Newton from the axis solution, safeguarded by bisection on [lo, hi] (Σ sin² rises monotonically up to qMax).
-  let lo = 0;
-  let hi = qMax;
-  let q = Math.min(2 * Math.asin(Math.sqrt(Math.min(1, target))), qMax * 0.999);
-  for (let it = 0; it < 60; it++) {
-    const f = g(q) - target;
-    if (f > 0) hi = q;
-    else lo = q;
-    const df = 0.5 * (cx * Math.sin(q * cx) + cy * Math.sin(q * cy) + cz * Math.sin(q * cz));
-    let next = q - f / df;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - q) <= 1e-15 * q) {
-      q = next;
-      break;
-    }
-    q = next;
-  }
-  return q;
+  return solveOnBranch(
+    (q) => g(q) - target,
+    (q) => 0.5 * (cx * Math.sin(q * cx) + cy * Math.sin(q * cy) + cz * Math.sin(q * cz)),
+    target,
+    qMax,
+  );
 }
 
 /**
