@@ -7,6 +7,7 @@
  * plan API's AccuracyPlan; the pane puts the markup in its page.
  */
 import type { Plan } from './plan-adapter';
+import { sig } from './format';
 
 export interface BudgetSegment {
   key: 'absorber' | 'dispersion' | 'run' | 'unused';
@@ -70,11 +71,6 @@ function num(x: number): string {
   return Number(x.toFixed(2)).toString();
 }
 
-function short(x: number): string {
-  if (x === 0) return '0';
-  const a = Math.abs(x);
-  return a >= 1e4 || a < 1e-2 ? x.toExponential(1) : Number(x.toPrecision(3)).toString();
-}
 
 /** The stacked bar as SVG markup, `width` px wide, labelled below. */
 export function budgetBarSvg(segments: readonly BudgetSegment[], tolerance: number, width = 300): string {
@@ -84,14 +80,14 @@ export function budgetBarSvg(segments: readonly BudgetSegment[], tolerance: numb
   const legend: string[] = [];
   segments.forEach((s, k) => {
     const w = s.fraction * width;
-    if (w > 0) rects.push(`<rect class="seg seg-${s.key}" x="${num(x)}" y="0" width="${num(w)}" height="${h}"><title>${escape(s.label)}: ${short(s.fraction * 100)} % of the tolerance</title></rect>`);
+    if (w > 0) rects.push(`<rect class="seg seg-${s.key}" x="${num(x)}" y="0" width="${num(w)}" height="${h}"><title>${escape(s.label)}: ${sig(s.fraction * 100)} % of the tolerance</title></rect>`);
     x += w;
-    const text = `${escape(s.label)} ${short(s.error * 100)} %`;
+    const text = `${escape(s.label)} ${sig(s.error * 100)} %`;
     legend.push(`<g transform="translate(${(k % 2) * (width / 2)},${h + 8 + Math.floor(k / 2) * 16})"><rect class="seg seg-${s.key}" width="10" height="10"/><text x="14" y="9">${text}</text></g>`);
   });
   const total = h + 8 + 2 * 16;
   return (
-    `<svg class="budget-bar" viewBox="0 0 ${width} ${total}" width="100%" role="img" aria-label="Error split against the tolerance of ${short(tolerance * 100)} %">` +
+    `<svg class="budget-bar" viewBox="0 0 ${width} ${total}" width="100%" role="img" aria-label="Error split against the tolerance of ${sig(tolerance * 100)} %">` +
     `${rects.join('')}<line class="tolerance" x1="${width}" y1="0" x2="${width}" y2="${h}"/>${legend.join('')}</svg>`
   );
 }
@@ -123,17 +119,17 @@ export function cellCostSvg(points: readonly CellPoint[], costLabel: string, wid
   const marks = points
     .map((p) => {
       const x = num(sx(p.cellNm));
-      if (p.cost === null) return `<path class="infeasible" d="M${num(sx(p.cellNm) - 3)},${base - 3}l6,6m0,-6l-6,6"><title>${short(p.cellNm)} nm: no plan meets the tolerance</title></path>`;
-      const tip = `${short(p.cellNm)} nm: ${p.kind === 'at least' ? 'at least ' : ''}${short(p.cost)}${p.kind === 'planned' ? ' (planned)' : ''}`;
+      if (p.cost === null) return `<path class="infeasible" d="M${num(sx(p.cellNm) - 3)},${base - 3}l6,6m0,-6l-6,6"><title>${sig(p.cellNm)} nm: no plan meets the tolerance</title></path>`;
+      const tip = `${sig(p.cellNm)} nm: ${p.kind === 'at least' ? 'at least ' : ''}${sig(p.cost)}${p.kind === 'planned' ? ' (planned)' : ''}`;
       return `<circle class="${p.kind === 'at least' ? 'bound' : p.kind === 'planned' ? 'planned' : 'candidate'}" cx="${x}" cy="${num(sy(p.cost))}" r="${p.kind === 'planned' ? 5 : 3}"><title>${tip}</title></circle>`;
     })
     .join('');
   const axis = `<line class="axis" x1="${left}" y1="${base}" x2="${width - right}" y2="${base}"/><line class="axis" x1="${left}" y1="${top}" x2="${left}" y2="${base}"/>`;
   const ticks =
-    `<text class="tick" x="${left}" y="${base + 12}" text-anchor="start">${short(x0)}</text>` +
-    (x1 > x0 ? `<text class="tick" x="${width - right}" y="${base + 12}" text-anchor="end">${short(x1)}</text>` : '') +
-    `<text class="tick" x="${left - 4}" y="${num(sy(y1) + 3)}" text-anchor="end">${short(y1)}</text>` +
-    (y1 > y0 ? `<text class="tick" x="${left - 4}" y="${num(sy(y0) + 3)}" text-anchor="end">${short(y0)}</text>` : '');
+    `<text class="tick" x="${left}" y="${base + 12}" text-anchor="start">${sig(x0)}</text>` +
+    (x1 > x0 ? `<text class="tick" x="${width - right}" y="${base + 12}" text-anchor="end">${sig(x1)}</text>` : '') +
+    `<text class="tick" x="${left - 4}" y="${num(sy(y1) + 3)}" text-anchor="end">${sig(y1)}</text>` +
+    (y1 > y0 ? `<text class="tick" x="${left - 4}" y="${num(sy(y0) + 3)}" text-anchor="end">${sig(y0)}</text>` : '');
   const labels =
     `<text class="label" x="${(left + width - right) / 2}" y="${base + 24}" text-anchor="middle">cell [nm]</text>` +
     `<text class="label" transform="translate(10,${(top + base) / 2}) rotate(-90)" text-anchor="middle">${escape(costLabel)}${log ? ' (log)' : ''}</text>`;

@@ -1,6 +1,7 @@
 import { amplitudeToDb, writeCsv } from '../plan';
 import { defaultCourant, exactFor, reflection, HushInputError, type SamplingConvention } from '../plan/steps';
 import { type CommandIO } from './io';
+import { absorberFromOptions } from './absorber';
 import { Options, type CommandSpec } from './options';
 import { writeFileAtomic } from './write';
 
@@ -24,14 +25,7 @@ export async function sweepCommand(argv: string[], io: CommandIO): Promise<numbe
   const angleMax = o.get<'angle'>('angle_max') ?? 0;
   const nf = ppwMax === ppwMin ? 1 : (o.get<'count'>('ppw_points') ?? 25);
   const na = angleMax === 0 ? 1 : (o.get<'count'>('angle_points') ?? 10);
-  const design = {
-    layers: o.required<'count'>('layers'),
-    order: o.required<'number'>('order'),
-    strength: o.get<'number'>('strength'),
-    kappaMax: o.get<'number'>('kappa_max'),
-    alphaMaxNorm: o.get<'number'>('alpha_max_norm'),
-    alphaOrder: o.get<'number'>('alpha_order'),
-  };
+  const design = absorberFromOptions(o);
   const index = o.get<'number'>('index') ?? 1;
   const sampling = (o.get<'choice'>('sampling') ?? 'node') as SamplingConvention | 'all';
   const conventions: SamplingConvention[] = sampling === 'all' ? ['node', 'average', 'offset'] : [sampling];

@@ -3,6 +3,7 @@ import { AGREEMENT, compareMeasurement, planVerification, relativeDifference, ru
 import { UsageError } from './args';
 import { designSpec, readDesignOptions } from './design';
 import { fmt, type CommandIO } from './io';
+import { absorberFromOptions } from './absorber';
 import { Options, type CommandSpec } from './options';
 import { progressBar } from './progress';
 
@@ -76,14 +77,7 @@ function readVerification(o: Options): Verified {
     dimensions = o.get<'count'>('dimensions') ?? 3;
     courant = o.get<'number'>('courant') ?? defaultCourant(dimensions);
     index = o.get<'number'>('index') ?? 1;
-    design = {
-      layers: o.required<'count'>('layers'),
-      order: o.required<'number'>('order'),
-      strength: o.get<'number'>('strength'),
-      kappaMax: o.get<'number'>('kappa_max'),
-      alphaMaxNorm: o.get<'number'>('alpha_max_norm'),
-      alphaOrder: o.get<'number'>('alpha_order'),
-    };
+    design = absorberFromOptions(o);
   } else {
     for (const f of ABSORBER) if (o.has(f)) throw new UsageError(`--${f} needs --layers: without it the design search chooses the absorber (give --layers, --order and --strength to verify one of your own)`);
     const r = readDesignOptions(o);

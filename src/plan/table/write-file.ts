@@ -16,7 +16,8 @@ import { writePlanCsv } from './write-csv';
 import { writePlanJson } from './write-json';
 import { writePlanXlsx } from './write-xlsx';
 
-function tempName(file: string, tag: string): string {
+/** The temporary file of a write to `file` (hidden beside it; removeStaleTemps finds those of ended processes). */
+export function tempName(file: string, tag: string): string {
   return path.join(path.dirname(file), `.${path.basename(file)}.hush-${process.pid}-${tag}.tmp`);
 }
 

@@ -15,6 +15,7 @@ import { starterTable, type StarterTable } from '../starter';
 import type { PlanCell } from '../index';
 import { cellName, columnLetters } from './text';
 import { csvCell } from './write-csv';
+import { tempName } from './write-file';
 import { DOCUMENT_DATE } from './write-xlsx';
 import { fixZipTimes } from './zip';
 
@@ -104,7 +105,7 @@ function csvText(t: StarterTable): string {
 /** Writes the starter table to `file` (.xlsx or .csv); refuses an existing file. */
 export async function writeStarter(file: string, format: 'xlsx' | 'csv'): Promise<void> {
   const t = starterTable();
-  const temp = `${file}.hush-${process.pid}-${Date.now()}.tmp`;
+  const temp = tempName(file, String(Date.now()));
   try {
     if (format === 'xlsx') await writeXlsx(temp, t);
     else await fs.writeFile(temp, csvText(t), { flag: 'wx' });
