@@ -9,7 +9,7 @@ import type { CommandIO } from '../src/cli/io';
 import { OUTPUT_NAMES, planHeaderText } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
 import { plainNumber } from '../src/plan/table/text';
-import { MAX_SHOWN_ROWS } from '../src/cli/plan';
+import { MAX_SHOWN_ROWS, rateText } from '../src/cli/plan';
 
 const dir = mkdtempSync(join(tmpdir(), 'hush-plan-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -222,5 +222,11 @@ describe('hush plan', () => {
     expect(lines.some((l) => l.startsWith('total: 150 studies,'))).toBe(true);
     expect(r.err).toMatch(/row 152: cell is required/);
     expect(JSON.parse((await run(['plan', f, '--json'])).out)).toHaveLength(151);
+  });
+  it('the progress line shows the rate and the time left once it can be measured', () => {
+    expect(rateText(0, 100, 5)).toBe('');
+    expect(rateText(10, 100, 2)).toBe(' · 5 rows/s · 18 s left');
+    expect(rateText(10, 1000, 2)).toBe(' · 5 rows/s · 3 min 18 s left');
+    expect(rateText(100, 100, 20)).toBe(' · 5 rows/s · 20 s in all');
   });
 });
