@@ -358,6 +358,32 @@ export interface CheckGroup {
   /** Near field: weight e^{−2·gap/L} and decay length L per frequency; null for propagating groups. */
   weight: Float64Array | null;
   decay: Float64Array | null;
+  /**
+   * The kernel's constants of every sample (fillSample), `perFrequency` per
+   * frequency in the order the scans take them (angles, then azimuths, from
+   * the largest; one azimuth at normal incidence): they do not depend on the design.
+   */
+  samples: Float64Array;
+  perFrequency: number;
+}
+
+/** A group's sample table (CheckGroup.samples) and how many samples each frequency has. */
+function sampleTable(sm: number, omegaDt: Float64Array, angleDeg: Float64Array, azimuthDeg: Float64Array, factor: Float64Array): { samples: Float64Array; perFrequency: number } {
+  const na = angleDeg.length;
+  const nz = azimuthDeg.length;
+  let perFrequency = 0;
+  for (let j = 0; j < na; j++) perFrequency += angleDeg[j] === 0 ? 1 : nz;
+  const samples = new Float64Array(omegaDt.length * perFrequency * SAMPLE_STRIDE);
+  let count = 0;
+  for (let i = 0; i < omegaDt.length; i++) {
+    for (let j = na - 1; j >= 0; j--) {
+      for (let z = angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
+        fillSample(sm, omegaDt[i], factor[(i * na + j) * nz + z], samples, count * SAMPLE_STRIDE);
+        count++;
+      }
+    }
+  }
+  return { samples, perFrequency };
 }
 
 /** Every sample a design must pass, grouped by coefficient set. */
@@ -392,8 +418,9 @@ export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: numbe
         }
       }
     }
+    const table = sampleTable(sm, omegaDt, angleDeg, azimuthDeg, factor);
     for (const sampling of primary ? rs.samplings.slice(0, 1) : rs.samplings) {
-      groups.push({ evanescent: false, index: nj, scale, courantMedium: sm, sampling, ppw, ppwMedium, omegaDt, angleDeg, azimuthDeg, factor, weight: null, decay: null });
+      groups.push({ evanescent: false, index: nj, scale, courantMedium: sm, sampling, ppw, ppwMedium, omegaDt, angleDeg, azimuthDeg, factor, weight: null, decay: null, ...table });
     }
   }
   if (rs.decayMinCells > 0) {
@@ -409,8 +436,9 @@ export function designChecks(rs: ResolvedSpec, nf: number, na: number, nz: numbe
       weight[i] = Math.exp((-2 * rs.gapCells) / decay[i]);
     }
     const zero = new Float64Array(1);
+    const table = sampleTable(sm, omegaDt, zero, zero, factor);
     for (const sampling of primary ? rs.samplings.slice(0, 1) : rs.samplings) {
-      groups.push({ evanescent: true, index: rs.index, scale: 1, courantMedium: sm, sampling, ppw, ppwMedium: ppw, omegaDt, angleDeg: zero, azimuthDeg: zero, factor, weight, decay });
+      groups.push({ evanescent: true, index: rs.index, scale: 1, courantMedium: sm, sampling, ppw, ppwMedium: ppw, omegaDt, angleDeg: zero, azimuthDeg: zero, factor, weight, decay, ...table });
     }
   }
   return { groups };
@@ -435,15 +463,17 @@ function newWorst(): Worst {
  * deterministic measure of cost, independent of the machine and its load;
  * tests bound it per call, `npm run bench` converts it to time.
  */
-let layerEvaluations = 0;
+// A typed cell: a module-level number beyond the small-integer range would be boxed anew at every update.
+const layerEvaluations = new Float64Array(1);
 
 /** Cumulative layer-evaluations of the design search (see above). */
 export function designWork(): number {
-  return layerEvaluations;
+  return layerEvaluations[0];
 }
 
 /** The design as group `g` sees it: σ and α scaled to its medium, its sampling convention. */
 function groupDesign(d: ResolvedDesign, g: CheckGroup, out: ResolvedDesign): ResolvedDesign {
+  if (g.scale === 1 && d.sampling === g.sampling) return d;
   out.layers = d.layers;
   out.order = d.order;
   out.strength = g.scale === 1 ? d.strength : d.strength * g.scale;
@@ -458,9 +488,20 @@ function groupDesign(d: ResolvedDesign, g: CheckGroup, out: ResolvedDesign): Res
 
 const scratchDesign: ResolvedDesign = resolveDesign({ layers: 1, order: 1 });
 
-/** worstReflection's table of one frequency's samples (fillSample) and their [re, im], grown as needed. */
-let searchSamples = new Float64Array(0);
+/** frequencyKernels' [re, im] of one frequency's samples, grown as needed. */
 let searchOut = new Float64Array(0);
+
+/**
+ * r at every sample of frequency i of group g (its directions in the scans' order, `g.samples`)
+ * into searchOut, with `ws.coef` holding the group's coefficients; returns the number of samples.
+ */
+function frequencyKernels(g: CheckGroup, i: number, N: number, ws: ReflectionWorkspace): number {
+  fillFactors(ws.coef, g.omegaDt[i], ws.factors);
+  const count = g.perFrequency;
+  if (searchOut.length < 2 * count) searchOut = new Float64Array(2 * count);
+  sampledKernels(ws.factors, N, g.samples, i * count, count, searchOut);
+  return count;
+}
 
 /**
  * Worst weighted |r| (|r|, times e^{−2·gap/L} for the near field) of `d` over
@@ -496,24 +537,10 @@ export function worstReflection(
     const f0 = start && gi === g0 ? start.frequency % nf : 0;
     for (let k = 0; k < nf; k++) {
       const i = (k + f0) % nf;
-      const om = g.omegaDt[i];
       const w = g.weight ? g.weight[i] : 1;
-      fillFactors(ws.coef, om, ws.factors);
-      // Every direction of this frequency in one pass over the layers (sampledKernels), then
-      // scanned in the order the search has always used, with the same early exit.
-      let count = 0;
-      if (searchSamples.length < na * nz * SAMPLE_STRIDE) {
-        searchSamples = new Float64Array(na * nz * SAMPLE_STRIDE);
-        searchOut = new Float64Array(2 * na * nz);
-      }
-      for (let j = na - 1; j >= 0; j--) {
-        for (let z = g.angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
-          fillSample(sm, om, g.factor[(i * na + j) * nz + z], searchSamples, count * SAMPLE_STRIDE);
-          count++;
-        }
-      }
-      sampledKernels(ws.factors, N, searchSamples, 0, count, searchOut);
-      evaluated += count;
+      // Every direction of this frequency in one pass over the layers, then scanned in the order
+      // the search has always used, with the same early exit.
+      evaluated += frequencyKernels(g, i, N, ws);
       let at = 0;
       for (let j = na - 1; j >= 0; j--) {
         for (let z = g.angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
@@ -533,7 +560,7 @@ export function worstReflection(
       }
     }
   }
-  layerEvaluations += evaluated * N;
+  layerEvaluations[0] += evaluated * N;
   out.amplitude = worst;
   out.group = wg;
   out.frequency = wf;
@@ -562,7 +589,7 @@ function amplitudeAt(layers: number, g: CheckGroup, rs: ResolvedSpec, ws: Reflec
     factorsOmega = om;
   }
   reflectionKernel(ws.factors, layers, sm, om, f, ws.out);
-  layerEvaluations += layers;
+  layerEvaluations[0] += layers;
   return Math.hypot(ws.out[0], ws.out[1]) * w;
 }
 
@@ -587,66 +614,154 @@ interface Refined {
 }
 
 /**
- * The worst weighted |r| between the dense samples, per group: every local
- * maximum of a group's dense grid (the highest REFINE_PEAKS) is climbed by
- * golden-section searches in frequency, angle and azimuth, in turn, within one
- * dense spacing of its sample and inside the band and direction ranges. The
- * result is at least the dense worst.
+ * The dense check of one design (its layers, order, κ_max, α_max_norm and
+ * strength fixed), kept so that searches with other targets reuse it
+ * (denseCheckOf):
+ * - `scan(bound)`: what worstReflection(d, dense, ws, bound) gives (the worst
+ *   weighted |r| in its sample order, stopping once over `bound`), its
+ *   samples computed only as far as a scan has gone;
+ * - `refined(target)`: the worst weighted |r| between the dense samples, per
+ *   group: every local maximum of a group's dense grid (the highest
+ *   REFINE_PEAKS, and below the highest only those at or above REFINE_FLOOR ×
+ *   target) is climbed by golden-section searches in frequency, angle and
+ *   azimuth, in turn, within one dense spacing of its sample and inside the
+ *   band and direction ranges; each climb is done once. The result is at least
+ *   the dense worst.
+ * The same arithmetic as computing each afresh, so the same values.
  */
-function refinedWorst(d: ResolvedDesign, dense: DesignChecks, rs: ResolvedSpec, ws: ReflectionWorkspace, target: number): Refined {
-  const perGroup: Peak[] = [];
-  let overall: Peak = { amplitude: -1, ppw: 0, angleDeg: 0, azimuthDeg: 0 };
-  const N = d.layers;
-  const g2 = (Math.sqrt(5) - 1) / 2;
-  // Golden-section maximisation of f on [a, b].
-  const climb = (f: (x: number) => number, a: number, b: number): [number, number] => {
-    let c = b - g2 * (b - a);
-    let e = a + g2 * (b - a);
-    let fc = f(c);
-    let fe = f(e);
-    for (let it = 0; it < REFINE_ITERATIONS; it++) {
-      if (fc > fe) {
-        b = e;
-        e = c;
-        fe = fc;
-        c = b - g2 * (b - a);
-        fc = f(c);
-      } else {
-        a = c;
-        c = e;
-        fc = fe;
-        e = a + g2 * (b - a);
-        fe = f(e);
+class DenseCheck {
+  private readonly d: ResolvedDesign;
+  /** The scan's weighted |r| (√(re² + im²)·w) and group, in worstReflection's order; `done` of `total` computed. */
+  private readonly scanAmp: Float64Array;
+  private readonly scanGroup: Uint16Array;
+  private done = 0;
+  private nextGroup = 0;
+  private nextFrequency = 0;
+  /** Per group: weighted |r| by Math.hypot at (i·na + j)·nz + z, its local maxima (highest first), the best of them, and the climbs so far. */
+  private readonly tables: Float64Array[];
+  private readonly peaks: (number[] | null)[];
+  private readonly firstBest: Peak[];
+  private readonly climbs: Peak[][];
+
+  constructor(
+    design: ResolvedDesign,
+    private readonly dense: DesignChecks,
+    private readonly rs: ResolvedSpec,
+  ) {
+    // The same property order as resolveDesign's objects, so the coefficient code sees one object shape.
+    const { layers, order, strength, kappaMax, alphaMaxNorm, alphaOrder, grading, geometricRatio, sampling } = design;
+    this.d = { layers, order, strength, kappaMax, alphaMaxNorm, alphaOrder, grading, geometricRatio, sampling };
+    let total = 0;
+    for (const g of dense.groups) {
+      let perFrequency = 0;
+      for (let j = 0; j < g.angleDeg.length; j++) perFrequency += g.angleDeg[j] === 0 ? 1 : g.azimuthDeg.length;
+      total += g.ppw.length * perFrequency;
+    }
+    this.scanAmp = new Float64Array(total);
+    this.scanGroup = new Uint16Array(total);
+    this.tables = dense.groups.map((g) => new Float64Array(g.ppw.length * g.angleDeg.length * g.azimuthDeg.length));
+    this.peaks = dense.groups.map(() => null);
+    this.firstBest = [];
+    this.climbs = dense.groups.map(() => []);
+  }
+
+  /** Computes the next frequency of the scan (every direction of it, in one pass over the layers). */
+  private extend(ws: ReflectionWorkspace, filled: { group: number }): void {
+    const gi = this.nextGroup;
+    const g = this.dense.groups[gi];
+    const sm = g.courantMedium;
+    const N = this.d.layers;
+    if (filled.group !== gi) {
+      fillCoefficients(groupDesign(this.d, g, scratchDesign), sm, ws.coef);
+      filled.group = gi;
+    }
+    const i = this.nextFrequency;
+    const na = g.angleDeg.length;
+    const nz = g.azimuthDeg.length;
+    const w = g.weight ? g.weight[i] : 1;
+    layerEvaluations[0] += frequencyKernels(g, i, N, ws) * N;
+    const table = this.tables[gi];
+    let at = 0;
+    for (let j = na - 1; j >= 0; j--) {
+      for (let z = g.angleDeg[j] === 0 ? 0 : nz - 1; z >= 0; z--) {
+        const re = searchOut[2 * at];
+        const im = searchOut[2 * at + 1];
+        at++;
+        this.scanAmp[this.done] = Math.sqrt(re * re + im * im) * w;
+        this.scanGroup[this.done] = gi;
+        this.done++;
+        table[(i * na + j) * nz + z] = Math.hypot(re, im) * w;
+      }
+      if (g.angleDeg[j] === 0) for (let z = 1; z < nz; z++) table[(i * na + j) * nz + z] = table[(i * na + j) * nz];
+    }
+    if (++this.nextFrequency === g.ppw.length) {
+      this.nextFrequency = 0;
+      this.nextGroup++;
+    }
+  }
+
+  /** worstReflection(d, dense, ws, bound): the worst weighted |r| and its group, stopping once over `bound`. */
+  scan(bound: number, ws: ReflectionWorkspace): { amplitude: number; group: number } {
+    const filled = { group: -1 };
+    let worst = -1;
+    let group = 0;
+    for (let p = 0; ; p++) {
+      if (p === this.done) {
+        if (this.done === this.scanAmp.length) break;
+        this.extend(ws, filled);
+      }
+      const a = this.scanAmp[p];
+      if (a > worst) {
+        worst = a;
+        group = this.scanGroup[p];
+        if (worst > bound) break;
       }
     }
-    return fc > fe ? [c, fc] : [e, fe];
-  };
-  for (const g of dense.groups) {
-    fillCoefficients(groupDesign(d, g, scratchDesign), g.courantMedium, ws.coef);
+    return { amplitude: worst, group };
+  }
+
+  /** The worst between the dense samples, per group and overall, for `target` (see the class). */
+  refined(target: number, ws: ReflectionWorkspace): Refined {
+    const filled = { group: -1 };
+    while (this.done < this.scanAmp.length) this.extend(ws, filled);
+    const perGroup: Peak[] = [];
+    let overall: Peak = { amplitude: -1, ppw: 0, angleDeg: 0, azimuthDeg: 0 };
+    this.dense.groups.forEach((g, gi) => {
+      const peaks = this.peaksOf(gi);
+      let best = this.firstBest[gi];
+      const amp = this.tables[gi];
+      let coefficients = false;
+      for (let n = 0; n < Math.min(REFINE_PEAKS, peaks.length); n++) {
+        const k = peaks[n];
+        // A peak far below the target does not reach it within one dense spacing; only the worst one is always refined (for the reported worst).
+        if (k !== peaks[0] && amp[k] < REFINE_FLOOR * target) break;
+        let c = this.climbs[gi][n];
+        if (!c) {
+          if (!coefficients) {
+            fillCoefficients(groupDesign(this.d, g, scratchDesign), g.courantMedium, ws.coef);
+            factorsOmega = NaN; // ws.factors no longer belongs to these coefficients
+            coefficients = true;
+          }
+          c = this.climb(g, k, ws);
+          this.climbs[gi][n] = c;
+        }
+        if (c.amplitude > best.amplitude) best = c;
+      }
+      perGroup.push(best);
+      if (best.amplitude > overall.amplitude) overall = best;
+    });
+    return { overall, perGroup };
+  }
+
+  /** Group gi's local maxima of the dense grid, highest first (and, once, the best of them). */
+  private peaksOf(gi: number): number[] {
+    const known = this.peaks[gi];
+    if (known) return known;
+    const g = this.dense.groups[gi];
+    const amp = this.tables[gi];
     const nf = g.ppw.length;
     const na = g.angleDeg.length;
     const nz = g.azimuthDeg.length;
-    const amp = new Float64Array(nf * na * nz);
-    let evaluated = 0;
-    for (let i = 0; i < nf; i++) {
-      const om = g.omegaDt[i];
-      const w = g.weight ? g.weight[i] : 1;
-      fillFactors(ws.coef, om, ws.factors);
-      for (let j = 0; j < na; j++) {
-        for (let z = 0; z < nz; z++) {
-          const at = (i * na + j) * nz + z;
-          if (z > 0 && g.angleDeg[j] === 0) {
-            amp[at] = amp[at - z];
-            continue;
-          }
-          reflectionKernel(ws.factors, N, g.courantMedium, om, g.factor[at], ws.out);
-          amp[at] = Math.hypot(ws.out[0], ws.out[1]) * w;
-          evaluated++;
-        }
-      }
-    }
-    layerEvaluations += evaluated * N;
-    factorsOmega = NaN; // ws.factors now holds the last dense frequency's factors, for this design only
     const peaks: number[] = [];
     for (let i = 0; i < nf; i++) {
       for (let j = 0; j < na; j++) {
@@ -672,49 +787,83 @@ function refinedWorst(d: ResolvedDesign, dense: DesignChecks, rs: ResolvedSpec, 
       }
     }
     peaks.sort((x, y) => amp[y] - amp[x]);
-    const at = (k: number) => ({ i: Math.floor(k / (na * nz)), j: Math.floor(k / nz) % na, z: k % nz });
     let best: Peak = { amplitude: -1, ppw: 0, angleDeg: 0, azimuthDeg: 0 };
     for (const k of peaks) {
       if (amp[k] > best.amplitude) {
-        const p = at(k);
+        const p = this.at(g, k);
         best = { amplitude: amp[k], ppw: g.ppw[p.i], angleDeg: g.angleDeg[p.j], azimuthDeg: g.azimuthDeg[p.z] };
       }
     }
-    for (const k of peaks.slice(0, REFINE_PEAKS)) {
-      // A peak far below the target does not reach it within one dense spacing; only the worst one is always refined (for the reported worst).
-      if (k !== peaks[0] && amp[k] < REFINE_FLOOR * target) break;
-      const { i, j, z } = at(k);
-      // Frequency as ν = 1/ppw (the grid is uniform in it), angles in degrees.
-      const nuLo = 1 / g.ppw[Math.min(nf - 1, i + 1)];
-      const nuHi = 1 / g.ppw[Math.max(0, i - 1)];
-      const thLo = g.angleDeg[Math.max(0, j - 1)];
-      const thHi = g.angleDeg[Math.min(na - 1, j + 1)];
-      const phLo = g.azimuthDeg[Math.max(0, z - 1)];
-      const phHi = g.azimuthDeg[Math.min(nz - 1, z + 1)];
-      let nu = 1 / g.ppw[i];
-      let th = g.angleDeg[j];
-      let ph = g.azimuthDeg[z];
-      let v = amp[k];
-      for (let round = 0; round < REFINE_ROUNDS; round++) {
-        if (nf > 1) {
-          const [x, fx] = climb((x) => amplitudeAt(N, g, rs, ws, 1 / x, th, ph), nuLo, nuHi);
-          if (fx > v) [nu, v] = [x, fx];
-        }
-        if (na > 1) {
-          const [y, fy] = climb((y) => amplitudeAt(N, g, rs, ws, 1 / nu, y, ph), thLo, thHi);
-          if (fy > v) [th, v] = [y, fy];
-        }
-        if (nz > 1 && th > 0) {
-          const [y, fy] = climb((y) => amplitudeAt(N, g, rs, ws, 1 / nu, th, y), phLo, phHi);
-          if (fy > v) [ph, v] = [y, fy];
+    this.peaks[gi] = peaks;
+    this.firstBest[gi] = best;
+    return peaks;
+  }
+
+  private at(g: CheckGroup, k: number): { i: number; j: number; z: number } {
+    const na = g.angleDeg.length;
+    const nz = g.azimuthDeg.length;
+    return { i: Math.floor(k / (na * nz)), j: Math.floor(k / nz) % na, z: k % nz };
+  }
+
+  /** The climb from dense sample k of group g (`ws.coef` holds the group's coefficients). */
+  private climb(g: CheckGroup, k: number, ws: ReflectionWorkspace): Peak {
+    const { rs } = this;
+    const N = this.d.layers;
+    const g2 = (Math.sqrt(5) - 1) / 2;
+    // Golden-section maximisation of f on [a, b].
+    const climb = (f: (x: number) => number, a: number, b: number): [number, number] => {
+      let c = b - g2 * (b - a);
+      let e = a + g2 * (b - a);
+      let fc = f(c);
+      let fe = f(e);
+      for (let it = 0; it < REFINE_ITERATIONS; it++) {
+        if (fc > fe) {
+          b = e;
+          e = c;
+          fe = fc;
+          c = b - g2 * (b - a);
+          fc = f(c);
+        } else {
+          a = c;
+          c = e;
+          fc = fe;
+          e = a + g2 * (b - a);
+          fe = f(e);
         }
       }
-      if (v > best.amplitude) best = { amplitude: v, ppw: 1 / nu, angleDeg: th, azimuthDeg: ph };
+      return fc > fe ? [c, fc] : [e, fe];
+    };
+    const nf = g.ppw.length;
+    const na = g.angleDeg.length;
+    const nz = g.azimuthDeg.length;
+    const { i, j, z } = this.at(g, k);
+    // Frequency as ν = 1/ppw (the grid is uniform in it), angles in degrees.
+    const nuLo = 1 / g.ppw[Math.min(nf - 1, i + 1)];
+    const nuHi = 1 / g.ppw[Math.max(0, i - 1)];
+    const thLo = g.angleDeg[Math.max(0, j - 1)];
+    const thHi = g.angleDeg[Math.min(na - 1, j + 1)];
+    const phLo = g.azimuthDeg[Math.max(0, z - 1)];
+    const phHi = g.azimuthDeg[Math.min(nz - 1, z + 1)];
+    let nu = 1 / g.ppw[i];
+    let th = g.angleDeg[j];
+    let ph = g.azimuthDeg[z];
+    let v = this.tables[this.dense.groups.indexOf(g)][k];
+    for (let round = 0; round < REFINE_ROUNDS; round++) {
+      if (nf > 1) {
+        const [x, fx] = climb((x) => amplitudeAt(N, g, rs, ws, 1 / x, th, ph), nuLo, nuHi);
+        if (fx > v) [nu, v] = [x, fx];
+      }
+      if (na > 1) {
+        const [y, fy] = climb((y) => amplitudeAt(N, g, rs, ws, 1 / nu, y, ph), thLo, thHi);
+        if (fy > v) [th, v] = [y, fy];
+      }
+      if (nz > 1 && th > 0) {
+        const [y, fy] = climb((y) => amplitudeAt(N, g, rs, ws, 1 / nu, th, y), phLo, phHi);
+        if (fy > v) [ph, v] = [y, fy];
+      }
     }
-    perGroup.push(best);
-    if (best.amplitude > overall.amplitude) overall = best;
+    return { amplitude: v, ppw: 1 / nu, angleDeg: th, azimuthDeg: ph };
   }
-  return { overall, perGroup };
 }
 
 interface Optimum {
@@ -730,84 +879,189 @@ interface Optimum {
  * the best other local minimum of the scan. The worst |r| against strength can
  * have narrow notches (interference between the grading and the back wall, at a
  * single frequency and near-normal incidence), so one start is not enough.
+ * Stops at the first checkpoint (the end of the scan, each golden step) whose
+ * best is ≤ `stopBelow` (strengthRun).
  */
 function bestStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWorkspace, stopBelow: number): Optimum {
-  const w: Worst = newWorst();
-  let start: Worst | null = null;
-  let bestGroup = 0;
-  let lastGroup = 0;
-  const evalAt = (logS: number, bound: number): number => {
-    d.strength = Math.exp(logS);
-    worstReflection(d, checks, ws, bound, start, w);
-    start = w;
-    lastGroup = w.group;
-    return w.amplitude;
-  };
-  const lo = Math.log(STRENGTH_MIN);
-  const hi = Math.log(MAX_STRENGTH);
-  const step = (hi - lo) / (SCAN_POINTS - 1);
-  const scan = new Float64Array(SCAN_POINTS);
-  let bestI = 0;
-  let bestV = Infinity;
-  for (let i = 0; i < SCAN_POINTS; i++) {
-    // Early exit above the best so far: such a value is a lower bound, enough to rank it.
-    const v = evalAt(lo + i * step, bestV);
-    scan[i] = v;
-    if (v < bestV) {
-      bestV = v;
-      bestI = i;
-      bestGroup = lastGroup;
-    }
-  }
-  let bestLog = lo + bestI * step;
-  if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
-  // Second start: the lowest other local minimum of the scan, away from the best one.
-  let otherI = -1;
-  for (let i = 0; i < SCAN_POINTS; i++) {
-    if (Math.abs(i - bestI) <= 1) continue;
-    const left = i === 0 ? Infinity : scan[i - 1];
-    const right = i === SCAN_POINTS - 1 ? Infinity : scan[i + 1];
-    if (scan[i] <= left && scan[i] <= right && (otherI < 0 || scan[i] < scan[otherI])) otherI = i;
-  }
-  const g = (Math.sqrt(5) - 1) / 2;
-  for (const centre of otherI < 0 ? [bestI] : [bestI, otherI]) {
-    let a = lo + Math.max(0, centre - 1) * step;
-    let b = lo + Math.min(SCAN_POINTS - 1, centre + 1) * step;
-    let c = b - g * (b - a);
-    let e = a + g * (b - a);
-    let fc = evalAt(c, Infinity);
-    let gc = lastGroup;
-    let fe = evalAt(e, Infinity);
-    let ge = lastGroup;
-    for (let it = 0; it < GOLDEN_ITERATIONS; it++) {
-      if (fc < fe) {
-        b = e;
-        e = c;
-        fe = fc;
-        ge = gc;
-        c = b - g * (b - a);
-        fc = evalAt(c, Infinity);
-        gc = lastGroup;
-      } else {
-        a = c;
-        c = e;
-        fc = fe;
-        gc = ge;
-        e = a + g * (b - a);
-        fe = evalAt(e, Infinity);
-        ge = lastGroup;
-      }
-      const m = Math.min(fc, fe);
-      if (m < bestV) {
-        bestV = m;
-        bestLog = fc < fe ? c : e;
-        bestGroup = fc < fe ? gc : ge;
-      }
-      if (bestV <= stopBelow) return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
-    }
-  }
-  return { strength: Math.exp(bestLog), worst: bestV, group: bestGroup };
+  return new StrengthRun(d, checks, ws).until(stopBelow);
 }
+
+/**
+ * One run of bestStrength's optimisation, taken only as far as a caller needs:
+ * `until(bound)` gives what bestStrength(…, bound) gives, resuming where an
+ * earlier call stopped. Its checkpoints (the end of the scan, each golden
+ * step) are where bestStrength may stop; nothing in the run depends on where a
+ * caller stops, so one run serves every stopping bound, and shared between
+ * searches of the same physics (strengthRun) it makes specs that differ only
+ * in their target share the work, with the same results as separate runs.
+ */
+class StrengthRun {
+  private readonly points: Optimum[] = [];
+  private final: Optimum | null = null;
+  private readonly w: Worst = newWorst();
+  private start: Worst | null = null;
+  private lastGroup = 0;
+  /** 0: the scan is next; 1: golden-section steps; 2: done. */
+  private phase = 0;
+  private bestV = Infinity;
+  private bestLog = 0;
+  private bestGroup = 0;
+  private readonly lo = Math.log(STRENGTH_MIN);
+  private readonly stepSize = (Math.log(MAX_STRENGTH) - Math.log(STRENGTH_MIN)) / (SCAN_POINTS - 1);
+  /** Scan points to refine around (the best, then the best other local minimum), the current one, and its golden step (−1: not started). */
+  private centres: number[] = [];
+  private centre = 0;
+  private it = -1;
+  private a = 0;
+  private b = 0;
+  private c = 0;
+  private e = 0;
+  private fc = 0;
+  private fe = 0;
+  private gc = 0;
+  private ge = 0;
+
+  constructor(
+    private readonly d: ResolvedDesign,
+    private readonly checks: DesignChecks,
+    private readonly ws: ReflectionWorkspace,
+  ) {}
+
+  until(stopBelow: number): Optimum {
+    // The checkpoints' bests only fall, so the first one at or under the bound is where bestStrength stops.
+    for (const p of this.points) if (p.worst <= stopBelow) return p;
+    for (;;) {
+      if (this.final) return this.final;
+      const p = this.step();
+      if (p) {
+        this.points.push(p);
+        if (p.worst <= stopBelow) return p;
+      }
+    }
+  }
+
+  private evalAt(logS: number, bound: number): number {
+    this.d.strength = Math.exp(logS);
+    worstReflection(this.d, this.checks, this.ws, bound, this.start, this.w);
+    this.start = this.w;
+    this.lastGroup = this.w.group;
+    return this.w.amplitude;
+  }
+
+  private best(): Optimum {
+    return { strength: Math.exp(this.bestLog), worst: this.bestV, group: this.bestGroup };
+  }
+
+  /** Runs to the next checkpoint and returns it, or sets `final` at the end and returns null. */
+  private step(): Optimum | null {
+    const lo = this.lo;
+    const step = this.stepSize;
+    if (this.phase === 0) {
+      // A log scan of the strength; each value stops early above the best so far (a lower bound, enough to rank it).
+      const scan = new Float64Array(SCAN_POINTS);
+      let bestI = 0;
+      for (let i = 0; i < SCAN_POINTS; i++) {
+        const v = this.evalAt(lo + i * step, this.bestV);
+        scan[i] = v;
+        if (v < this.bestV) {
+          this.bestV = v;
+          bestI = i;
+          this.bestGroup = this.lastGroup;
+        }
+      }
+      this.bestLog = lo + bestI * step;
+      // Second start: the lowest other local minimum of the scan, away from the best one.
+      let otherI = -1;
+      for (let i = 0; i < SCAN_POINTS; i++) {
+        if (Math.abs(i - bestI) <= 1) continue;
+        const left = i === 0 ? Infinity : scan[i - 1];
+        const right = i === SCAN_POINTS - 1 ? Infinity : scan[i + 1];
+        if (scan[i] <= left && scan[i] <= right && (otherI < 0 || scan[i] < scan[otherI])) otherI = i;
+      }
+      this.centres = otherI < 0 ? [bestI] : [bestI, otherI];
+      this.phase = 1;
+      return this.best();
+    }
+    const g = (Math.sqrt(5) - 1) / 2;
+    for (;;) {
+      if (this.centre >= this.centres.length) {
+        this.final = this.best();
+        this.phase = 2;
+        return null;
+      }
+      if (this.it < 0) {
+        const centre = this.centres[this.centre];
+        this.a = lo + Math.max(0, centre - 1) * step;
+        this.b = lo + Math.min(SCAN_POINTS - 1, centre + 1) * step;
+        this.c = this.b - g * (this.b - this.a);
+        this.e = this.a + g * (this.b - this.a);
+        this.fc = this.evalAt(this.c, Infinity);
+        this.gc = this.lastGroup;
+        this.fe = this.evalAt(this.e, Infinity);
+        this.ge = this.lastGroup;
+        this.it = 0;
+      }
+      if (this.it >= GOLDEN_ITERATIONS) {
+        this.centre++;
+        this.it = -1;
+        continue;
+      }
+      if (this.fc < this.fe) {
+        this.b = this.e;
+        this.e = this.c;
+        this.fe = this.fc;
+        this.ge = this.gc;
+        this.c = this.b - g * (this.b - this.a);
+        this.fc = this.evalAt(this.c, Infinity);
+        this.gc = this.lastGroup;
+      } else {
+        this.a = this.c;
+        this.c = this.e;
+        this.fc = this.fe;
+        this.gc = this.ge;
+        this.e = this.a + g * (this.b - this.a);
+        this.fe = this.evalAt(this.e, Infinity);
+        this.ge = this.lastGroup;
+      }
+      const m = Math.min(this.fc, this.fe);
+      if (m < this.bestV) {
+        this.bestV = m;
+        this.bestLog = this.fc < this.fe ? this.c : this.e;
+        this.bestGroup = this.fc < this.fe ? this.gc : this.ge;
+      }
+      this.it++;
+      return this.best();
+    }
+  }
+}
+
+/**
+ * Strength runs of the module's searches: per search key (physics, order,
+ * κ_max, α_max_norm: orderSearch) the runs by layers and sample set. Beyond
+ * RUN_LIMIT runs in all, the oldest keys' runs are dropped (only work is lost).
+ */
+const runs = new Map<string, Map<number, StrengthRun>>();
+let runCount = 0;
+const RUN_LIMIT = 40000;
+/** Dense checks of the module's searches by the same key and the design's strength (DenseCheck). */
+const denseChecksKept = new Map<string, DenseCheck>();
+const DENSE_LIMIT = 2000;
+
+/** The runs of one search key (see `runs`). */
+function runsOf(key: string): Map<number, StrengthRun> {
+  let m = runs.get(key);
+  if (!m) {
+    while (runCount >= RUN_LIMIT && runs.size > 0) {
+      const oldest = runs.keys().next().value as string;
+      runCount -= (runs.get(oldest) as Map<number, StrengthRun>).size;
+      runs.delete(oldest);
+    }
+    m = new Map();
+    runs.set(key, m);
+  }
+  return m;
+}
+
 
 /**
  * Minimises the worst |r| over log-strength within one scan step of `around`:
@@ -875,11 +1129,49 @@ function denseChecks(rs: ResolvedSpec): DesignChecks {
   return designChecks(rs, (SEARCH_FREQUENCIES - 1) * DENSE_FACTOR + 1, (SEARCH_ANGLES - 1) * DENSE_FACTOR + 1, DENSE_AZIMUTHS);
 }
 
-/** The sample sets of one search: the search grid, its screen (or null) and the dense check. */
+/**
+ * The sample sets of one search: the search grid, its screen (or null) and the
+ * dense check; made once per physics (runKey, searchChecksOf) and kept with
+ * what the searches of that physics share: the key of their strength runs and
+ * dense checks, the candidates' rankings and continuous-theory integrals.
+ */
 interface SearchChecks {
   grid: DesignChecks;
   screen: DesignChecks | null;
   dense: DesignChecks;
+  /** Short key of this physics for the strength runs and dense checks (a counter, unique while the module lives). */
+  key: string;
+  rankings: Map<string, Ranked[]>;
+  integrals: Map<string, CandidateIntegrals>;
+}
+
+/** A (κ_max, α_max_norm) candidate and the lowest worst it reaches in designForOrder's ranking. */
+interface Ranked {
+  kappa: number;
+  alpha: number;
+  est: number;
+}
+
+/** candidateEstimate's integrals per band sample: the attenuation kept by the CFS shift (att/attFree) and ∫₀¹ Re s du. */
+interface CandidateIntegrals {
+  kept: Float64Array;
+  re: Float64Array;
+}
+
+const physicsKept = new Map<string, SearchChecks>();
+const PHYSICS_LIMIT = 1000;
+let physicsCount = 0;
+
+/** The sample sets of `rs` and what its searches share (made on first use; the oldest are dropped beyond PHYSICS_LIMIT). */
+function searchChecksOf(rs: ResolvedSpec): SearchChecks {
+  const key = runKey(rs);
+  let c = physicsKept.get(key);
+  if (!c) {
+    if (physicsKept.size >= PHYSICS_LIMIT) physicsKept.delete(physicsKept.keys().next().value as string);
+    c = { grid: searchChecks(rs), screen: screenChecks(rs), dense: denseChecks(rs), key: `${++physicsCount}`, rankings: new Map(), integrals: new Map() };
+    physicsKept.set(key, c);
+  }
+  return c;
 }
 
 interface Pass {
@@ -906,6 +1198,20 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
   const { grid, dense, screen } = checks;
   const target = rs.target;
   const base = (N: number) => baseDesign(N, order, kappaMax, alphaMaxNorm, rs.alphaOrder);
+  // The strength runs at N on each sample set, shared with every search of the same physics (strengthRun).
+  const prefix = `${checks.key}|${order}|${kappaMax}|${alphaMaxNorm}|`;
+  const shared = runsOf(prefix);
+  const kinds = { screen: 0, grid: 1, dense: 2 } as const;
+  const runOf = (N: number, kind: keyof typeof kinds): StrengthRun => {
+    const key = 3 * N + kinds[kind];
+    let r = shared.get(key);
+    if (!r) {
+      r = new StrengthRun(base(N), kind === 'screen' ? (screen as DesignChecks) : kind === 'grid' ? grid : dense, ws);
+      shared.set(key, r);
+      if (runs.get(prefix) === shared) runCount++;
+    }
+    return r;
+  };
   const memo = new Map<number, Optimum>();
   const failedIn = new Map<number, CheckGroup>();
   const infeasible: Optimum = { strength: 1, worst: Infinity, group: 0 };
@@ -916,11 +1222,11 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
       // The screen first: failing its subset of the samples proves failure at a fraction of the work
       // (most of a search's work is spent on layer counts that fail).
       if (screen) {
-        o = bestStrength(base(N), screen, ws, target);
+        o = runOf(N, 'screen').until(target);
         if (o.worst > target) failedIn.set(N, screen.groups[o.group]);
       }
       if (!o || o.worst <= target) {
-        o = bestStrength(base(N), grid, ws, target);
+        o = runOf(N, 'grid').until(target);
         if (o.worst > target) failedIn.set(N, grid.groups[o.group]);
       }
       memo.set(N, o);
@@ -928,7 +1234,16 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     return o;
   };
   const ok = (N: number) => feasible(N).worst <= target;
-  const w: Worst = newWorst();
+  const denseCheckOf = (d: ResolvedDesign): DenseCheck => {
+    const key = `${prefix}${d.layers}|${d.strength}`;
+    let c = denseChecksKept.get(key);
+    if (!c) {
+      if (denseChecksKept.size >= DENSE_LIMIT) denseChecksKept.delete(denseChecksKept.keys().next().value as string);
+      c = new DenseCheck(d, dense, rs);
+      denseChecksKept.set(key, c);
+    }
+    return c;
+  };
   const denseMemo = new Map<number, Pass | null>();
   const densePass = (N: number): Pass | null => {
     if (N < rs.minLayers) return null;
@@ -936,17 +1251,20 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     let pass: Pass | null = null;
     // The dense grid first (cheap, stops at the first sample over the target), then between its samples.
     let failedGroup = 0;
+    let scanned = 0;
     const meets = (d: ResolvedDesign, bound = target): Refined | null => {
-      worstReflection(d, dense, ws, bound, null, w);
-      failedGroup = w.group;
-      if (w.amplitude > target) return null;
-      const peak = refinedWorst(d, dense, rs, ws, target);
+      const check = denseCheckOf(d);
+      const sw = check.scan(bound, ws);
+      failedGroup = sw.group;
+      scanned = sw.amplitude;
+      if (sw.amplitude > target) return null;
+      const peak = check.refined(target, ws);
       if (peak.overall.amplitude <= target) return peak;
       failedGroup = peak.perGroup.indexOf(peak.overall);
       return null;
     };
     // Feasibility stopped at the first strength under the target; the answer uses the best one.
-    const opt = bestStrength(base(N), grid, ws, 0);
+    const opt = runOf(N, 'grid').until(0);
     if (opt.worst <= target) {
       const d = base(N);
       d.strength = opt.strength;
@@ -956,9 +1274,9 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
       // the dense check that follows is on every group, so this bounds the work, not the guarantee.
       let peak = meets(d, screen ? REOPT_MISS * target : target);
       if (!peak && !screen) {
-        d.strength = bestStrength(base(N), dense, ws, 0).strength;
+        d.strength = runOf(N, 'dense').until(0).strength;
         peak = meets(d);
-      } else if (!peak && w.amplitude <= REOPT_MISS * target) {
+      } else if (!peak && scanned <= REOPT_MISS * target) {
         d.strength = localStrength(base(N), { groups: [...grid.groups, dense.groups[failedGroup]] }, ws, opt.strength);
         peak = meets(d);
       }
@@ -1031,7 +1349,7 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     }
     return densePass(passed);
   };
-  const below = (N: number, bound: number): Optimum => (N < rs.minLayers ? infeasible : bestStrength(base(N), grid, ws, bound));
+  const below = (N: number, bound: number): Optimum => (N < rs.minLayers ? infeasible : runOf(N, 'grid').until(bound));
   return { feasible, failedGroup: (N) => failedIn.get(N) ?? null, below, densePass, thinnest };
 }
 
@@ -1111,14 +1429,35 @@ const prof = new Float64Array(3);
  * attenuation a CFS shift leaves at the band's long end; near field
  * N ≈ max_p (L(p)·ln(1/R)/2 − gap)/∫₀¹ Re s du, s = κ + σ/(α + jω).
  */
-function candidateEstimate(rs: ResolvedSpec, order: number, kappaMax: number, alphaMaxNorm: number, ppw: Float64Array): number {
-  const d = baseDesign(rs.maxLayers, order, kappaMax, alphaMaxNorm, rs.alphaOrder);
+function candidateEstimate(rs: ResolvedSpec, order: number, kappaMax: number, alphaMaxNorm: number, ppw: Float64Array, kept: Map<string, CandidateIntegrals>): number {
   const lnR = Math.log(1 / rs.target);
   const cosT = Math.cos((rs.angleMaxDeg * Math.PI) / 180);
-  const panels = 16;
-  const xs = [-0.906179845938664, -0.5384693101056831, 0, 0.5384693101056831, 0.906179845938664];
-  const wts = [0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891];
+  const { kept: share, re } = candidateIntegrals(rs, order, kappaMax, alphaMaxNorm, ppw, kept);
   let est = 0;
+  for (let i = 0; i < ppw.length; i++) {
+    est = Math.max(est, lnR / (1.6 * cosT * share[i]));
+    if (rs.decayMinCells > 0) {
+      const L = (rs.decayMinCells * ppw[i]) / rs.ppwMin;
+      est = Math.max(est, (L * lnR) / 2 - rs.gapCells > 0 ? ((L * lnR) / 2 - rs.gapCells) / re[i] : 0);
+    }
+  }
+  return est;
+}
+
+/** Nodes and weights of 5-point Gauss–Legendre quadrature on [−1, 1] (Abramowitz & Stegun, table 25.4). */
+const GAUSS5_NODES = [-0.906179845938664, -0.5384693101056831, 0, 0.5384693101056831, 0.906179845938664];
+const GAUSS5_WEIGHTS = [0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891];
+
+/** candidateEstimate's integrals of a candidate (they do not depend on the target), by 16-panel 5-point Gauss–Legendre quadrature, kept per physics. */
+function candidateIntegrals(rs: ResolvedSpec, order: number, kappaMax: number, alphaMaxNorm: number, ppw: Float64Array, kept: Map<string, CandidateIntegrals>): CandidateIntegrals {
+  const key = `${order}|${kappaMax}|${alphaMaxNorm}|${rs.maxLayers}`;
+  const known = kept.get(key);
+  if (known) return known;
+  const d = baseDesign(rs.maxLayers, order, kappaMax, alphaMaxNorm, rs.alphaOrder);
+  const panels = 16;
+  const xs = GAUSS5_NODES;
+  const wts = GAUSS5_WEIGHTS;
+  const out: CandidateIntegrals = { kept: new Float64Array(ppw.length), re: new Float64Array(ppw.length) };
   for (let i = 0; i < ppw.length; i++) {
     const wn = (2 * Math.PI) / ppw[i];
     let att = 0;
@@ -1135,13 +1474,11 @@ function candidateEstimate(rs: ResolvedSpec, order: number, kappaMax: number, al
         re += w * (prof[1] + (prof[0] * prof[2]) / (prof[2] * prof[2] + wn * wn));
       }
     }
-    est = Math.max(est, lnR / (1.6 * cosT * (att / attFree)));
-    if (rs.decayMinCells > 0) {
-      const L = (rs.decayMinCells * ppw[i]) / rs.ppwMin;
-      est = Math.max(est, (L * lnR) / 2 - rs.gapCells > 0 ? ((L * lnR) / 2 - rs.gapCells) / re : 0);
-    }
+    out.kept[i] = att / attFree;
+    out.re[i] = re;
   }
-  return est;
+  kept.set(key, out);
+  return out;
 }
 
 function describeSample(rs: ResolvedSpec, checks: DesignChecks, w: Worst): string {
@@ -1185,13 +1522,16 @@ function designForOrder(rs: ResolvedSpec, order: number, checks: SearchChecks, w
   // strengths (each evaluation stops once above the best of all candidates so far): the grid itself
   // ranks them, as continuous theory misses κ's own grading reflection on coarse grids.
   const estimates: number[] = [];
-  for (const kappa of kappas) for (const alpha of alphas) estimates.push(candidateEstimate(rs, order, kappa, alpha, band));
+  for (const kappa of kappas) for (const alpha of alphas) estimates.push(candidateEstimate(rs, order, kappa, alpha, band, checks.integrals));
   const sorted = [...estimates].sort((a, b) => a - b);
   const probe = Math.max(rs.minLayers, Math.min(rs.maxLayers, Math.ceil(sorted[Math.floor(sorted.length / 2)])));
   const screen = checks.screen ?? grid;
   const w: Worst = newWorst();
   /** The candidates in order of the lowest worst each reaches at `layers` over RANK_STRENGTHS on the screen. */
-  const ranked = (list: { kappa: number; alpha: number }[], layers: number) => {
+  const ranked = (list: { kappa: number; alpha: number }[], layers: number): Ranked[] => {
+    const key = `${order}|${layers}|${list.map((c) => `${c.kappa}/${c.alpha}`).join(',')}`;
+    const known = checks.rankings.get(key);
+    if (known) return [...known];
     let bound = Infinity;
     const out = list.map(({ kappa, alpha }) => {
       const d = baseDesign(layers, order, kappa, alpha, rs.alphaOrder);
@@ -1204,7 +1544,9 @@ function designForOrder(rs: ResolvedSpec, order: number, checks: SearchChecks, w
       }
       return { kappa, alpha, est };
     });
-    return out.sort((a, b) => a.est - b.est || a.kappa - b.kappa || a.alpha - b.alpha);
+    out.sort((a, b) => a.est - b.est || a.kappa - b.kappa || a.alpha - b.alpha);
+    checks.rankings.set(key, out);
+    return [...out];
   };
   const pairs: { kappa: number; alpha: number }[] = [];
   for (const kappa of kappas) for (const alpha of alphas) pairs.push({ kappa, alpha });
@@ -1301,10 +1643,12 @@ const cache = new Map<string, DesignResult[]>();
 const CACHE_LIMIT = 5000;
 
 function canonicalKey(rs: ResolvedSpec): string {
-  return [
-    rs.target, rs.ppwMin, rs.ppwMax, rs.angleMaxDeg, rs.azimuthMaxDeg, rs.courant, rs.index, rs.dimensions, rs.absorberIndices.join('/'), rs.orders.join('/'),
-    rs.kappaMax, rs.alphaMaxNorm, rs.alphaOrder, rs.maxLayers, rs.minLayers, rs.sampling, rs.decayMinCells, rs.gapCells,
-  ].join('|');
+  return [rs.target, rs.orders.join('/'), rs.kappaMax, rs.alphaMaxNorm, rs.maxLayers, rs.minLayers, runKey(rs)].join('|');
+}
+
+/** What the sample sets and the strength runs of a spec depend on: everything but the target, the orders, κ/α choices and layer limits (each run's own order, κ_max, α_max_norm and N are added to it). */
+function runKey(rs: ResolvedSpec): string {
+  return [rs.ppwMin, rs.ppwMax, rs.angleMaxDeg, rs.azimuthMaxDeg, rs.courant, rs.index, rs.dimensions, rs.absorberIndices.join('/'), rs.alphaOrder, rs.sampling, rs.decayMinCells, rs.gapCells].join('|');
 }
 
 const workspace = createWorkspace();
@@ -1317,7 +1661,7 @@ export function designOptionsResolved(rs: ResolvedSpec): DesignResult[] {
   const key = canonicalKey(rs);
   const hit = cache.get(key);
   if (hit) return hit.map(copyResult);
-  const checks: SearchChecks = { grid: searchChecks(rs), screen: screenChecks(rs), dense: denseChecks(rs) };
+  const checks = searchChecksOf(rs);
   const results: DesignResult[] = [];
   for (const m of rs.orders) {
     const r = designForOrder(rs, m, checks, workspace);
@@ -1360,6 +1704,10 @@ export function designAbsorber(spec: DesignSpec): DesignResult {
 /** Clears the design cache (benchmarks measure with and without it). */
 export function clearDesignCache(): void {
   cache.clear();
+  physicsKept.clear();
+  runs.clear();
+  runCount = 0;
+  denseChecksKept.clear();
 }
 
 /**

@@ -175,70 +175,74 @@ export function sampledKernel(f: NodeFactors, layers: number, samples: Float64Ar
   return out;
 }
 
-/** Most samples one pass of `sampledKernels` carries. */
-const PASS = 8;
-const state = new Float64Array(4 * PASS);
-
 /**
  * The kernel at `count` samples of one frequency (one set of node factors),
- * samples[(first + k)·SAMPLE_STRIDE…], k = 0…count − 1, in passes of up to 8
- * samples that walk the layers once, each layer's 1/F read once for all of
- * them. Writes [Re r, Im r] of sample k at out[2k], out[2k + 1]; the same
- * arithmetic per sample as `sampledKernel`, so the same values.
+ * samples[(first + k)·SAMPLE_STRIDE…], k = 0…count − 1, two at a time in one
+ * walk over the layers (each layer's 1/F read once for both, their fields in
+ * registers). Writes [Re r, Im r] of sample k at out[2k], out[2k + 1]; the
+ * same arithmetic per sample as `sampledKernel`, so the same values.
  */
 export function sampledKernels(f: NodeFactors, layers: number, samples: Float64Array, first: number, count: number, out: Float64Array): Float64Array {
   const eg = f.eInvRe;
   const egi = f.eInvIm;
   const hg = f.hInvRe;
   const hgi = f.hInvIm;
-  for (let k0 = 0; k0 < count; k0 += PASS) {
-    const n = Math.min(PASS, count - k0);
-    for (let k = 0; k < n; k++) {
-      state[4 * k] = 0;
-      state[4 * k + 1] = 0;
-      state[4 * k + 2] = 1;
-      state[4 * k + 3] = 0;
-    }
-    const s0 = (first + k0) * SAMPLE_STRIDE;
+  let k = 0;
+  for (; k + 1 < count; k += 2) {
+    const s0 = (first + k) * SAMPLE_STRIDE;
+    const s1 = s0 + SAMPLE_STRIDE;
+    const om0 = samples[s0];
+    const wz0 = samples[s0 + 1];
+    const om1 = samples[s1];
+    const wz1 = samples[s1 + 1];
+    let eRe0 = 0;
+    let eIm0 = 0;
+    let hRe0 = 1;
+    let hIm0 = 0;
+    let eRe1 = 0;
+    let eIm1 = 0;
+    let hRe1 = 1;
+    let hIm1 = 0;
     for (let i = layers - 1; i >= 0; i--) {
       const hr = hg[i];
       const hi = hgi[i];
       const er = eg[i];
       const ei = egi[i];
-      for (let k = 0; k < n; k++) {
-        const omega = samples[s0 + k * SAMPLE_STRIDE];
-        const wz = samples[s0 + k * SAMPLE_STRIDE + 1];
-        let eRe = state[4 * k];
-        let eIm = state[4 * k + 1];
-        let hRe = state[4 * k + 2];
-        let hIm = state[4 * k + 3];
-        let tr = hRe * hr - hIm * hi;
-        let ti = hRe * hi + hIm * hr;
-        eRe += omega * ti;
-        eIm -= omega * tr;
-        tr = eRe * er - eIm * ei;
-        ti = eRe * ei + eIm * er;
-        hRe += wz * ti;
-        hIm -= wz * tr;
-        const mag = Math.abs(eRe) + Math.abs(eIm) + Math.abs(hRe) + Math.abs(hIm);
-        if (mag > RESCALE) {
-          const r = 1 / RESCALE;
-          eRe *= r;
-          eIm *= r;
-          hRe *= r;
-          hIm *= r;
-        }
-        state[4 * k] = eRe;
-        state[4 * k + 1] = eIm;
-        state[4 * k + 2] = hRe;
-        state[4 * k + 3] = hIm;
+      let tr = hRe0 * hr - hIm0 * hi;
+      let ti = hRe0 * hi + hIm0 * hr;
+      eRe0 += om0 * ti;
+      eIm0 -= om0 * tr;
+      tr = eRe0 * er - eIm0 * ei;
+      ti = eRe0 * ei + eIm0 * er;
+      hRe0 += wz0 * ti;
+      hIm0 -= wz0 * tr;
+      tr = hRe1 * hr - hIm1 * hi;
+      ti = hRe1 * hi + hIm1 * hr;
+      eRe1 += om1 * ti;
+      eIm1 -= om1 * tr;
+      tr = eRe1 * er - eIm1 * ei;
+      ti = eRe1 * ei + eIm1 * er;
+      hRe1 += wz1 * ti;
+      hIm1 -= wz1 * tr;
+      if (Math.abs(eRe0) + Math.abs(eIm0) + Math.abs(hRe0) + Math.abs(hIm0) > RESCALE) {
+        const r = 1 / RESCALE;
+        eRe0 *= r;
+        eIm0 *= r;
+        hRe0 *= r;
+        hIm0 *= r;
+      }
+      if (Math.abs(eRe1) + Math.abs(eIm1) + Math.abs(hRe1) + Math.abs(hIm1) > RESCALE) {
+        const r = 1 / RESCALE;
+        eRe1 *= r;
+        eIm1 *= r;
+        hRe1 *= r;
+        hIm1 *= r;
       }
     }
-    for (let k = 0; k < n; k++) {
-      const at = s0 + k * SAMPLE_STRIDE;
-      split(state[4 * k], state[4 * k + 1], state[4 * k + 2], state[4 * k + 3], samples[at], samples[at + 2], samples[at + 3], samples[at + 4], out, 2 * (k0 + k));
-    }
+    split(eRe0, eIm0, hRe0, hIm0, om0, samples[s0 + 2], samples[s0 + 3], samples[s0 + 4], out, 2 * k);
+    split(eRe1, eIm1, hRe1, hIm1, om1, samples[s1 + 2], samples[s1 + 3], samples[s1 + 4], out, 2 * k + 2);
   }
+  if (k < count) sampledKernel(f, layers, samples, (first + k) * SAMPLE_STRIDE, out, 2 * k);
   return out;
 }
 

@@ -314,6 +314,37 @@ function parseUnit(field: string, text: string, expected: string): MathUnit {
   return u;
 }
 
+/** Conversions already made, by parsed unit (the parse cache hands out the same object for the same text) and target unit. */
+const converted = new WeakMap<MathUnit, Map<string, number>>();
+
+/** u.toNumber(to), remembered per parsed unit (mathjs builds and converts units slowly; a table repeats its values). */
+function numberIn(u: MathUnit, to: string): number {
+  let m = converted.get(u);
+  if (!m) {
+    m = new Map();
+    converted.set(u, m);
+  }
+  let x = m.get(to);
+  if (x === undefined) {
+    x = u.toNumber(to);
+    m.set(to, x);
+  }
+  return x;
+}
+
+/** A bare number in unit `from` converted to `to` (math.unit(x, from).toNumber(to)), remembered by value. */
+const bareConverted = new Map<string, number>();
+function bareIn(x: number, from: string, to: string): number {
+  const key = `${Object.is(x, -0) ? '-0' : x}|${from}|${to}`;
+  let y = bareConverted.get(key);
+  if (y === undefined) {
+    y = math.unit(x, from).toNumber(to);
+    if (bareConverted.size >= PARSE_CACHE_LIMIT) bareConverted.delete(bareConverted.keys().next().value as string);
+    bareConverted.set(key, y);
+  }
+  return y;
+}
+
 type Kind = 'length' | 'frequency' | 'time' | 'angle' | 'bandwidth';
 let references: Record<Kind, MathUnit> | undefined;
 
@@ -331,10 +362,10 @@ function reference(): Record<Kind, MathUnit> {
 
 function quantity(field: string, v: FieldValue, kind: Kind, siUnit: string, defaultUnit: string, expected: string): number {
   const bare = bareNumber(field, v);
-  if (bare !== null) return canonical(finite(field, math.unit(bare, defaultUnit).toNumber(siUnit), v));
+  if (bare !== null) return canonical(finite(field, bareIn(bare, defaultUnit, siUnit), v));
   const u = parseUnit(field, v as string, expected);
   if (!u.equalBase(reference()[kind])) throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
-  return canonical(finite(field, u.toNumber(siUnit), v));
+  return canonical(finite(field, numberIn(u, siUnit), v));
 }
 
 function positive(field: string, x: number, shown: FieldValue): number {
@@ -374,11 +405,11 @@ export function parseBandwidth(field: string, v: FieldValue): number {
 export function parseWavelength(field: string, v: FieldValue, defaultUnit = 'nm'): number {
   const expected = 'a length or a frequency';
   const bare = bareNumber(field, v);
-  if (bare !== null) return positive(field, canonical(finite(field, math.unit(bare, defaultUnit).toNumber('m'), v)), v);
+  if (bare !== null) return positive(field, canonical(finite(field, bareIn(bare, defaultUnit, 'm'), v)), v);
   const u = parseUnit(field, v as string, expected);
-  if (u.equalBase(reference().length)) return positive(field, canonical(finite(field, u.toNumber('m'), v)), v);
+  if (u.equalBase(reference().length)) return positive(field, canonical(finite(field, numberIn(u, 'm'), v)), v);
   if (u.equalBase(reference().frequency)) {
-    const f = positive(field, finite(field, u.toNumber('Hz'), v), v);
+    const f = positive(field, finite(field, numberIn(u, 'Hz'), v), v);
     return canonical(finite(field, SPEED_OF_LIGHT / f, v));
   }
   throw new HushInputError(field, `${field} must be ${expected} (got ${describe(v)})`, 'value');
@@ -459,7 +490,7 @@ export function parseGap(field: string, v: FieldValue): Gap {
   if (m) return /^cell/i.test(m[2]) ? { cells: finite(field, Number(m[1]), v) } : { wavelengths: finite(field, Number(m[1]), v) };
   const u = parseUnit(field, t, 'a number of cells, of wavelengths, or a length');
   if (!u.equalBase(reference().length)) throw new HushInputError(field, `${field} must be a number of cells, of wavelengths (λ), or a length (got ${t})`, 'value');
-  return { metres: canonical(finite(field, u.toNumber('m'), v)) };
+  return { metres: canonical(finite(field, numberIn(u, 'm'), v)) };
 }
 
 /** A word from a fixed list (case-insensitive). */
