@@ -1,6 +1,6 @@
 import { statSync } from 'fs';
 import * as path from 'path';
-import { OUTPUT_NAMES, type PlanCell } from '../plan';
+import { OUTPUT_NAMES, releasePlanningCaches, type PlanCell } from '../plan';
 import {
   describeRead,
   jsonTerminalSafe,
@@ -185,6 +185,7 @@ export async function planCommand(argv: string[], io: CommandIO): Promise<number
   // Notes are printed once the plan is written, so a run that ends in an error (exit 2) prints that error alone.
   const notes = readingNotes(table);
   const { planned, totals, plans, errors } = planTable(table, progress(io) ?? undefined);
+  releasePlanningCaches();
 
   if (out !== undefined) {
     try {

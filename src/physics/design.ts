@@ -934,7 +934,9 @@ class StrengthRun {
       if (this.final) return this.final;
       const p = this.step();
       if (p) {
-        this.points.push(p);
+        // A checkpoint that did not improve on the last one kept is never the first under a bound: not kept.
+        const last = this.points.length > 0 ? this.points[this.points.length - 1] : null;
+        if (!last || p.worst !== last.worst) this.points.push(p);
         if (p.worst <= stopBelow) return p;
       }
     }
@@ -1042,10 +1044,10 @@ class StrengthRun {
  */
 const runs = new Map<string, Map<number, StrengthRun>>();
 let runCount = 0;
-const RUN_LIMIT = 40000;
+const RUN_LIMIT = 16000;
 /** Dense checks of the module's searches by the same key and the design's strength (DenseCheck). */
 const denseChecksKept = new Map<string, DenseCheck>();
-const DENSE_LIMIT = 2000;
+const DENSE_LIMIT = 1500;
 
 /** The runs of one search key (see `runs`). */
 function runsOf(key: string): Map<number, StrengthRun> {
@@ -1159,7 +1161,7 @@ interface CandidateIntegrals {
 }
 
 const physicsKept = new Map<string, SearchChecks>();
-const PHYSICS_LIMIT = 1000;
+const PHYSICS_LIMIT = 200;
 let physicsCount = 0;
 
 /** The sample sets of `rs` and what its searches share (made on first use; the oldest are dropped beyond PHYSICS_LIMIT). */

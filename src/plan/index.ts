@@ -14,7 +14,7 @@ import { MODEL_VERSION } from '../physics/constants';
 import { conductivityNorm } from '../physics/normalise';
 import { courantLimit } from '../physics/courant';
 import { MIN_INTENSITY_ERROR, requiredAmplitude } from '../physics/budget';
-import { type DesignResult } from '../physics/design';
+import { clearDesignCache, type DesignResult } from '../physics/design';
 import { type CostResult } from '../physics/cost';
 import { budgetOptions, costAt, gridAt, planAccuracy, type AccuracyPlan } from './accuracy';
 import { accuracyNotes, designNotes } from './accuracy-notes';
@@ -177,6 +177,16 @@ export function planRow(row: ProjectRow): Plan {
 /** Clears the plan cache (benchmarks). */
 export function clearPlanCache(): void {
   cache.clear();
+}
+
+/**
+ * Frees what planning keeps for later rows: the plan cache and the design
+ * search's caches and shared work. `hush plan` calls it once every row is
+ * planned, so writing a large table does not carry them too.
+ */
+export function releasePlanningCaches(): void {
+  cache.clear();
+  clearDesignCache();
 }
 
 /** Output columns in order, with units (the worksheet's spilled row and the CLI's added columns). */
