@@ -105,9 +105,7 @@ function sampleNodes(d: ResolvedDesign, count: number, shift: number, sm: number
     // call), then a from σ and b.
     for (let i = 0; i < count; i++) {
       const u = i + shift < N ? (i + shift) / N : 1;
-      // u^m as powWhole forms it for the common orders (the same products in the same order).
-      const um = m === 3 ? u * (u * u) : m === 2 ? u * u : m === 4 ? u * u * (u * u) : powWhole(u, m);
-      aOut[i] = sigmaMax * um;
+      aOut[i] = sigmaMax * powWhole(u, m);
     }
     for (let i = 0; i < count; i++) bOut[i] = Math.exp(-aOut[i] * sm);
     for (let i = 0; i < count; i++) {
@@ -118,7 +116,7 @@ function sampleNodes(d: ResolvedDesign, count: number, shift: number, sm: number
     return;
   }
   for (let i = 0; i < count; i++) {
-    const u = Math.min((i + shift) / N, 1);
+    const u = i + shift < N ? (i + shift) / N : 1;
     let sigma: number;
     let um: number;
     if (geometric) {
