@@ -526,11 +526,16 @@ export function worstReflection(
   let wz = 0;
   let evaluated = 0;
   const N = d.layers;
+  // The group whose coefficients ws.coef holds (a near-field group usually has its propagating group's).
+  let filled: CheckGroup | null = null;
   search: for (let gg = 0; gg < G; gg++) {
     const gi = (gg + g0) % G;
     const g = groups[gi];
     const sm = g.courantMedium;
-    fillCoefficients(groupDesign(d, g, scratchDesign), sm, ws.coef);
+    if (!filled || filled.scale !== g.scale || filled.sampling !== g.sampling || filled.courantMedium !== sm) {
+      fillCoefficients(groupDesign(d, g, scratchDesign), sm, ws.coef);
+      filled = g;
+    }
     const nf = g.ppw.length;
     const na = g.angleDeg.length;
     const nz = g.azimuthDeg.length;
@@ -666,14 +671,15 @@ class DenseCheck {
   }
 
   /** Computes the next frequency of the scan (every direction of it, in one pass over the layers). */
-  private extend(ws: ReflectionWorkspace, filled: { group: number }): void {
+  private extend(ws: ReflectionWorkspace, filled: { group: CheckGroup | null }): void {
     const gi = this.nextGroup;
     const g = this.dense.groups[gi];
     const sm = g.courantMedium;
     const N = this.d.layers;
-    if (filled.group !== gi) {
+    const f = filled.group;
+    if (!f || f.scale !== g.scale || f.sampling !== g.sampling || f.courantMedium !== sm) {
       fillCoefficients(groupDesign(this.d, g, scratchDesign), sm, ws.coef);
-      filled.group = gi;
+      filled.group = g;
     }
     const i = this.nextFrequency;
     const na = g.angleDeg.length;
@@ -702,7 +708,7 @@ class DenseCheck {
 
   /** worstReflection(d, dense, ws, bound): the worst weighted |r| and its group, stopping once over `bound`. */
   scan(bound: number, ws: ReflectionWorkspace): { amplitude: number; group: number } {
-    const filled = { group: -1 };
+    const filled: { group: CheckGroup | null } = { group: null };
     let worst = -1;
     let group = 0;
     for (let p = 0; ; p++) {
@@ -722,7 +728,7 @@ class DenseCheck {
 
   /** The worst between the dense samples, per group and overall, for `target` (see the class). */
   refined(target: number, ws: ReflectionWorkspace): Refined {
-    const filled = { group: -1 };
+    const filled: { group: CheckGroup | null } = { group: null };
     while (this.done < this.scanAmp.length) this.extend(ws, filled);
     const perGroup: Peak[] = [];
     let overall: Peak = { amplitude: -1, ppw: 0, angleDeg: 0, azimuthDeg: 0 };
