@@ -1003,9 +1003,12 @@ class StrengthRun {
         this.b = lo + Math.min(SCAN_POINTS - 1, centre + 1) * step;
         this.c = this.b - g * (this.b - this.a);
         this.e = this.a + g * (this.b - this.a);
+        // Each new point is evaluated only as far as it takes to know it is worse than the other
+        // (its value then a lower bound above the other's): such a point leaves the bracket at the
+        // next step unused, so the steps, the best and its group are those of full evaluations.
         this.fc = this.evalAt(this.c, Infinity);
         this.gc = this.lastGroup;
-        this.fe = this.evalAt(this.e, Infinity);
+        this.fe = this.evalAt(this.e, this.fc);
         this.ge = this.lastGroup;
         this.it = 0;
       }
@@ -1020,7 +1023,7 @@ class StrengthRun {
         this.fe = this.fc;
         this.ge = this.gc;
         this.c = this.b - g * (this.b - this.a);
-        this.fc = this.evalAt(this.c, Infinity);
+        this.fc = this.evalAt(this.c, this.fe);
         this.gc = this.lastGroup;
       } else {
         this.a = this.c;
@@ -1028,7 +1031,7 @@ class StrengthRun {
         this.fc = this.fe;
         this.gc = this.ge;
         this.e = this.a + g * (this.b - this.a);
-        this.fe = this.evalAt(this.e, Infinity);
+        this.fe = this.evalAt(this.e, this.fc);
         this.ge = this.lastGroup;
       }
       const m = Math.min(this.fc, this.fe);
