@@ -1512,8 +1512,9 @@ function describeSample(rs: ResolvedSpec, checks: DesignChecks, w: Worst): strin
 function designForOrder(rs: ResolvedSpec, order: number, checks: SearchChecks, ws: ReflectionWorkspace): DesignResult | null {
   const { grid, dense } = checks;
   const omegaMin = (2 * Math.PI) / rs.ppwMax;
-  const kappas = rs.kappaMax !== null ? [rs.kappaMax] : [...KAPPA_CANDIDATES];
-  const alphas = rs.alphaMaxNorm !== null ? [rs.alphaMaxNorm] : ALPHA_FRACTIONS.map((f) => f * omegaMin);
+  // Float64Arrays: one element kind whatever the values, so the optimised search does not reshape for them.
+  const kappas = Float64Array.from(rs.kappaMax !== null ? [rs.kappaMax] : KAPPA_CANDIDATES);
+  const alphas = Float64Array.from(rs.alphaMaxNorm !== null ? [rs.alphaMaxNorm] : ALPHA_FRACTIONS.map((f) => f * omegaMin));
   const kappaChosen = rs.kappaMax === null;
   const alphaChosen = rs.alphaMaxNorm === null;
   if (!kappaChosen && !alphaChosen) {
