@@ -29,6 +29,7 @@ import { checkCourant, defaultCourant } from './courant';
 import { checkPpw, discreteWavenumberUnchecked, evanescentFactorUnchecked, transverseFactorUnchecked } from './dispersion';
 import { fillCoefficients } from './cpml';
 import { continuousReflectionUnchecked } from './continuous';
+import { setBounded } from './bounded-map';
 import { HushInputError } from './errors';
 import { checkSampling, profileAt, resolveDesign, type ResolvedDesign, type SamplingConvention } from './grading';
 import { MAX_DECAY_CELLS, SAMPLE_STRIDE, checkedEvanescentFactor, createWorkspace, fillFactors, fillSample, reflectionKernel, sampledKernels, type ReflectionWorkspace } from './reflection';
@@ -748,7 +749,7 @@ class DenseCheck {
             factorsOmega = NaN; // ws.factors no longer belongs to these coefficients
             coefficients = true;
           }
-          c = this.climb(g, k, ws);
+          c = this.climb(gi, k, ws);
           this.climbs[gi][n] = c;
         }
         if (c.amplitude > best.amplitude) best = c;
@@ -811,8 +812,9 @@ class DenseCheck {
     return { i: Math.floor(k / (na * nz)), j: Math.floor(k / nz) % na, z: k % nz };
   }
 
-  /** The climb from dense sample k of group g (`ws.coef` holds the group's coefficients). */
-  private climb(g: CheckGroup, k: number, ws: ReflectionWorkspace): Peak {
+  /** The climb from dense sample k of group gi (`ws.coef` holds the group's coefficients). */
+  private climb(gi: number, k: number, ws: ReflectionWorkspace): Peak {
+    const g = this.dense.groups[gi];
     const { rs } = this;
     const N = this.d.layers;
     const g2 = (Math.sqrt(5) - 1) / 2;
@@ -853,7 +855,7 @@ class DenseCheck {
     let nu = 1 / g.ppw[i];
     let th = g.angleDeg[j];
     let ph = g.azimuthDeg[z];
-    let v = this.tables[this.dense.groups.indexOf(g)][k];
+    let v = this.tables[gi][k];
     for (let round = 0; round < REFINE_ROUNDS; round++) {
       if (nf > 1) {
         const [x, fx] = climb((x) => amplitudeAt(N, g, rs, ws, 1 / x, th, ph), nuLo, nuHi);
@@ -886,7 +888,7 @@ interface Optimum {
  * have narrow notches (interference between the grading and the back wall, at a
  * single frequency and near-normal incidence), so one start is not enough.
  * Stops at the first checkpoint (the end of the scan, each golden step) whose
- * best is ≤ `stopBelow` (strengthRun).
+ * best is ≤ `stopBelow` (StrengthRun).
  */
 function bestStrength(d: ResolvedDesign, checks: DesignChecks, ws: ReflectionWorkspace, stopBelow: number): Optimum {
   return new StrengthRun(d, checks, ws).until(stopBelow);
@@ -1178,9 +1180,8 @@ function searchChecksOf(rs: ResolvedSpec): SearchChecks {
   const key = runKey(rs);
   let c = physicsKept.get(key);
   if (!c) {
-    if (physicsKept.size >= PHYSICS_LIMIT) physicsKept.delete(physicsKept.keys().next().value as string);
     c = { grid: searchChecks(rs), screen: screenChecks(rs), dense: denseChecks(rs), key: `${++physicsCount}`, rankings: new Map(), integrals: new Map() };
-    physicsKept.set(key, c);
+    setBounded(physicsKept, key, c, PHYSICS_LIMIT);
   }
   return c;
 }
@@ -1249,9 +1250,8 @@ function orderSearch(rs: ResolvedSpec, order: number, kappaMax: number, alphaMax
     const key = `${prefix}${d.layers}|${d.strength}`;
     let c = denseChecksKept.get(key);
     if (!c) {
-      if (denseChecksKept.size >= DENSE_LIMIT) denseChecksKept.delete(denseChecksKept.keys().next().value as string);
       c = new DenseCheck(d, dense, rs);
-      denseChecksKept.set(key, c);
+      setBounded(denseChecksKept, key, c, DENSE_LIMIT);
     }
     return c;
   };
@@ -1687,8 +1687,7 @@ export function designOptionsResolved(rs: ResolvedSpec): DesignResult[] {
     );
   }
   results.sort((a, b) => a.layers - b.layers || Math.max(a.worstAmplitude, a.worstEvanescent ?? 0) - Math.max(b.worstAmplitude, b.worstEvanescent ?? 0));
-  if (cache.size >= CACHE_LIMIT) cache.delete(cache.keys().next().value as string);
-  cache.set(key, results);
+  setBounded(cache, key, results, CACHE_LIMIT);
   return results.map(copyResult);
 }
 

@@ -18,6 +18,7 @@ import { clearDesignCache, type DesignResult } from '../physics/design';
 import { type CostResult } from '../physics/cost';
 import { budgetOptions, costAt, gridAt, planAccuracy, type AccuracyPlan } from './accuracy';
 import { accuracyNotes, designNotes } from './accuracy-notes';
+import { setBounded } from '../physics/bounded-map';
 import { HushInputError } from '../physics/errors';
 import { OUTPUT_COLUMNS, OUTPUT_NAMES, errorRecord, outputHeaderText, planRecord, type OutputColumn, type PlanCell, type PlanRecord } from './fields';
 import { planInputs, type PlanInputs, type ProjectRow } from './row';
@@ -160,8 +161,7 @@ export function planFromInputs(inputs: PlanInputs): Plan {
     warnings,
   };
   deepFreeze(plan);
-  if (cache.size >= PLAN_CACHE_LIMIT) cache.delete(cache.keys().next().value as string);
-  cache.set(key, plan);
+  setBounded(cache, key, plan, PLAN_CACHE_LIMIT);
   return plan;
 }
 

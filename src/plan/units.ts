@@ -9,6 +9,7 @@
  */
 import type { Unit } from 'mathjs';
 import { SPEED_OF_LIGHT } from '../physics/constants';
+import { setBounded } from '../physics/bounded-map';
 import { HushInputError } from '../physics/errors';
 
 type MathUnit = Unit;
@@ -303,8 +304,7 @@ function parseUnit(field: string, text: string, expected: string): MathUnit {
     } catch (e) {
       u = e instanceof Error ? e : new Error(String(e));
     }
-    if (parsed.size >= PARSE_CACHE_LIMIT) parsed.delete(parsed.keys().next().value as string);
-    parsed.set(t, u);
+    setBounded(parsed, t, u, PARSE_CACHE_LIMIT);
   }
   if (u instanceof Error) {
     // mathjs quotes the text as typed; a line break in it would split the message.
@@ -339,8 +339,7 @@ function bareIn(x: number, from: string, to: string): number {
   let y = bareConverted.get(key);
   if (y === undefined) {
     y = math.unit(x, from).toNumber(to);
-    if (bareConverted.size >= PARSE_CACHE_LIMIT) bareConverted.delete(bareConverted.keys().next().value as string);
-    bareConverted.set(key, y);
+    setBounded(bareConverted, key, y, PARSE_CACHE_LIMIT);
   }
   return y;
 }

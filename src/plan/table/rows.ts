@@ -5,6 +5,7 @@
  * too long to be one. And the plan of a row, computed once for rows that
  * differ only in their study name.
  */
+import { setBounded } from '../../physics/bounded-map';
 import { HushInputError } from '../../physics/errors';
 import { columnValue, inputColumn, planFromInputs, planInputs, planToRow, type FieldValue, type Plan, type PlanCell, type ProjectRow } from '../index';
 import { isDateFormat, serialDateText } from './formats';
@@ -122,8 +123,7 @@ export class TablePlanner {
       if (!(e instanceof HushInputError)) throw e;
       result = e;
     }
-    if (this.cache.size >= TYPED_CACHE_LIMIT) this.cache.delete(this.cache.keys().next().value as string);
-    this.cache.set(key, result);
+    setBounded(this.cache, key, result, TYPED_CACHE_LIMIT);
     if (result instanceof HushInputError) throw result;
     return result;
   }
