@@ -32,7 +32,7 @@ import { continuousReflectionUnchecked } from './continuous';
 import { setBounded } from './bounded-map';
 import { HushInputError } from './errors';
 import { checkSampling, profileAt, resolveDesign, type ResolvedDesign, type SamplingConvention } from './grading';
-import { MAX_DECAY_CELLS, SAMPLE_STRIDE, checkedEvanescentFactor, createWorkspace, fillFactors, fillSample, reflectionKernel, sampledKernels, type ReflectionWorkspace } from './reflection';
+import { MAX_DECAY_CELLS, SAMPLE_STRIDE, checkedEvanescentFactor, createWorkspace, fillFactors, fillFactorsAt, fillSample, reflectionKernel, sampledKernels, type ReflectionWorkspace } from './reflection';
 import { MAX_LAYERS, MAX_STRENGTH } from './constants';
 import { inRange, wholeInRange } from './validate';
 
@@ -366,10 +366,19 @@ export interface CheckGroup {
    */
   samples: Float64Array;
   perFrequency: number;
+  /** cos ωΔt and sin ωΔt per frequency, for the node factors (fillFactorsAt). */
+  cosDt: Float64Array;
+  sinDt: Float64Array;
 }
 
 /** A group's sample table (CheckGroup.samples) and how many samples each frequency has. */
-function sampleTable(sm: number, omegaDt: Float64Array, angleDeg: Float64Array, azimuthDeg: Float64Array, factor: Float64Array): { samples: Float64Array; perFrequency: number } {
+function sampleTable(
+  sm: number,
+  omegaDt: Float64Array,
+  angleDeg: Float64Array,
+  azimuthDeg: Float64Array,
+  factor: Float64Array,
+): { samples: Float64Array; perFrequency: number; cosDt: Float64Array; sinDt: Float64Array } {
   const na = angleDeg.length;
   const nz = azimuthDeg.length;
   let perFrequency = 0;
@@ -384,7 +393,13 @@ function sampleTable(sm: number, omegaDt: Float64Array, angleDeg: Float64Array, 
       }
     }
   }
-  return { samples, perFrequency };
+  const cosDt = new Float64Array(omegaDt.length);
+  const sinDt = new Float64Array(omegaDt.length);
+  for (let i = 0; i < omegaDt.length; i++) {
+    cosDt[i] = Math.cos(omegaDt[i]);
+    sinDt[i] = Math.sin(omegaDt[i]);
+  }
+  return { samples, perFrequency, cosDt, sinDt };
 }
 
 /** Every sample a design must pass, grouped by coefficient set. */
@@ -497,7 +512,7 @@ let searchOut = new Float64Array(0);
  * into searchOut, with `ws.coef` holding the group's coefficients; returns the number of samples.
  */
 function frequencyKernels(g: CheckGroup, i: number, N: number, ws: ReflectionWorkspace): number {
-  fillFactors(ws.coef, g.omegaDt[i], ws.factors);
+  fillFactorsAt(ws.coef, g.cosDt[i], g.sinDt[i], ws.factors);
   const count = g.perFrequency;
   if (searchOut.length < 2 * count) searchOut = new Float64Array(2 * count);
   sampledKernels(ws.factors, N, g.samples, i * count, count, searchOut);

@@ -51,10 +51,13 @@ export function allocateFactors(capacity: number): NodeFactors {
  * (exactly 1 on a lossless node, a = 0 and κ = 1, as F itself is).
  */
 export function fillFactors(coef: CpmlCoefficients, omegaDt: number, out: NodeFactors): NodeFactors {
-  const c = Math.cos(omegaDt);
-  const s = Math.sin(omegaDt);
-  invertFactors(coef.layers + 1, c, s, coef.eB, coef.eA, coef.eInvKappa, out.eInvRe, out.eInvIm);
-  invertFactors(coef.layers, c, s, coef.hB, coef.hA, coef.hInvKappa, out.hInvRe, out.hInvIm);
+  return fillFactorsAt(coef, Math.cos(omegaDt), Math.sin(omegaDt), out);
+}
+
+/** fillFactors with cos ωΔt and sin ωΔt given (a search that samples the same frequencies again computes them once). */
+export function fillFactorsAt(coef: CpmlCoefficients, cosDt: number, sinDt: number, out: NodeFactors): NodeFactors {
+  invertFactors(coef.layers + 1, cosDt, sinDt, coef.eB, coef.eA, coef.eInvKappa, out.eInvRe, out.eInvIm);
+  invertFactors(coef.layers, cosDt, sinDt, coef.hB, coef.hA, coef.hInvKappa, out.hInvRe, out.hInvIm);
   return out;
 }
 
