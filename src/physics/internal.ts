@@ -13,7 +13,8 @@
  */
 export { allocateCoefficients, nodeCoefficients, fillCoefficients } from './cpml';
 export { allocateFactors, fillFactors, fillSample, sampledKernel, sampledKernels, SAMPLE_STRIDE, reflectionKernel, resolveWave, checkedEvanescentFactor, createWorkspace, reflectionResolved } from './reflection';
-export { worstReflection, sampleGrid, designChecks, bestStrengthFor, resolveSpec, designOptionsResolved } from './design';
+export { worstReflection, sampleGrid, designChecks } from './design-checks';
+export { bestStrengthFor, resolveSpec, designOptionsResolved } from './design';
 export { profileAt, profileIntegral, sigmaOptNormUnchecked } from './grading';
 export { attenuationIntegral, continuousReflectionUnchecked, continuousEvanescentUnchecked } from './continuous';
 export { discreteWavenumberUnchecked, discreteWavenumber3DUnchecked, transverseFactorUnchecked, evanescentFactorUnchecked } from './dispersion';
