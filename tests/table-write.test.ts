@@ -19,6 +19,7 @@ import { OUTPUT_NAMES, planHeaderText } from '../src/plan';
 import { parseCsv } from '../src/plan/csv';
 import { csvText } from '../src/plan/table/write-csv';
 import { zipEntries } from '../src/plan/table/zip';
+import { zipQueueLength } from '../src/plan/table/write-xlsx';
 import { buildXlsx, rowXml } from './support/xlsx-build';
 import { bundle } from './support/bundle';
 
@@ -232,6 +233,22 @@ describe('.xlsx output', () => {
     await wb2.xlsx.readFile(o2);
     expect((wb2.getWorksheet('plan')!.getRow(2).values as unknown[]).slice(1, 9)).toEqual(['s1', 1, '1550 nm', '50 nm', 100, 0.01, 1.5, '007']);
   });
+  it("finds exceljs's queue of sheet XML for the zip, so a long sheet waits for the zip instead of being queued whole (the 100,000-row memory bound, BENCHMARKS.md)", async () => {
+    const target = out('queue.xlsx');
+    const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: target, useStyles: true, useSharedStrings: true });
+    const ws = wb.addWorksheet('plan');
+    for (let r = 1; r <= 50; r++) {
+      ws.getRow(r).getCell(1).value = `row ${r}`;
+      ws.getRow(r).commit();
+    }
+    const queued = zipQueueLength(ws);
+    expect(typeof queued).toBe('number');
+    expect(queued as number).toBeGreaterThanOrEqual(0);
+    ws.commit();
+    await wb.commit();
+    expect(existsSync(target)).toBe(true);
+  });
+
   it('is byte-identical between runs: fixed document dates and zip timestamps', async () => {
     const xin = input();
     const a = out('a.xlsx');

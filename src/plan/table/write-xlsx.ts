@@ -1,7 +1,7 @@
 /**
  * The plan as an .xlsx workbook, streamed out with exceljs's streaming writer
- * (rows go to the file as they are made; the workbook is never built in
- * memory). Sheets: "plan" (the table as read, cells in their places, with
+ * (rows go to the file as they are made, the writer waiting while the zip
+ * catches up: zipQueueDrained; the workbook is never built in memory). Sheets: "plan" (the table as read, cells in their places, with
  * the outputs in added columns), "summary" (per study and in total, printed
  * on one page) and "about" (model version, estimate note, constants,
  * columns). Numbers are number cells: an .xlsx input's cells keep their
@@ -47,6 +47,36 @@ class Styles {
     if (!s) this.byFormat.set(numFmt, (s = { numFmt }));
     return s;
   }
+}
+
+/** Rows written between two looks at the zip's queue (zipQueueDrained). */
+const ROWS_PER_LOOK = 200;
+/** Bytes of sheet XML allowed to wait for the zip before the writer waits (8 MiB). */
+const ZIP_QUEUE_LIMIT = 8 << 20;
+
+/**
+ * Waits while more than ZIP_QUEUE_LIMIT bytes of `ws`'s XML wait to be
+ * compressed. exceljs's streaming writer hands each sheet's XML to the zip
+ * without backpressure (its buffer's write never returns false), so a sheet
+ * written in one synchronous loop is queued whole, uncompressed, before the
+ * zip takes any of it (283 MB of XML for 100,000 rows). The queue is the
+ * stream the zip reads the sheet from (the `pipes` of exceljs's stream
+ * buffer, a Node stream with its `_writableState`); where that is not found
+ * (another exceljs), nothing waits and the bytes are the same.
+ */
+async function zipQueueDrained(ws: Worksheet): Promise<void> {
+  let queued = zipQueueLength(ws);
+  while (queued !== null && queued > ZIP_QUEUE_LIMIT) {
+    await new Promise((resolve) => setTimeout(resolve, 1));
+    queued = zipQueueLength(ws);
+  }
+}
+
+/** Bytes of a streamed sheet's XML waiting for the zip, or null where the queue is not found (see zipQueueDrained). */
+export function zipQueueLength(ws: Worksheet): number | null {
+  const stream = (ws as unknown as { stream?: { pipes?: { _writableState?: { length?: unknown } }[] } }).stream;
+  const length = stream?.pipes?.[0]?._writableState?.length;
+  return typeof length === 'number' ? length : null;
 }
 
 /** The value written for a cell of the table (a CSV cell that is a plain number becomes a number). */
@@ -146,7 +176,10 @@ async function writePlanSheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, tabl
     }
   });
   head.commit();
-  for (const p of planned) writeRow(p.row, p.outputs);
+  for (let i = 0; i < planned.length; i++) {
+    writeRow(planned[i].row, planned[i].outputs);
+    if ((i + 1) % ROWS_PER_LOOK === 0) await zipQueueDrained(ws);
+  }
   ws.commit();
 }
 
@@ -234,6 +267,7 @@ async function writeSummarySheet(wb: ExcelJSModule.stream.xlsx.WorkbookWriter, p
       cell.style = columnStyles[k];
     });
     row.commit();
+    if ((n - SUMMARY_FIRST_ROW) % ROWS_PER_LOOK === 0) await zipQueueDrained(ws);
   }
   if (figures.length) {
     const first = SUMMARY_FIRST_ROW;
